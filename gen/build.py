@@ -1,0 +1,234 @@
+"""From a checked table spec to a verified fitted table.
+
+``build_table(ts)`` wraps the core as a function of the user's units, measures the floor that
+the number format itself imposes, fits every allowed (layout, degree) candidate with error
+control (refitting with a tighter budget until the emulated target arithmetic meets the
+tolerance), picks the one that best meets the goal, and verifies it densely.
+
+Offers ``Table``, ``build_table(ts)``, ``BuildError``, ``core_function(ts)``,
+``error_scale(kind)``, ``estimated_ops(pw)``.
+"""
+
+import hashlib
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from . import arith
+from . import quantities as Q
+from .fit import segments as S
+from .fit.piecewise import Piecewise1D
+from .verify import verify_table
+
+#: points of the quick verification done for every candidate
+QUICK_POINTS = 20_000
+#: a candidate is accepted when its quick verification stays below this share of the tolerance
+#: (a sampled maximum can miss the true one; the margin keeps the final check honest)
+ACCEPT = 0.98
+#: refits per candidate before it is given up
+MAX_REFITS = 6
+
+
+class BuildError(ValueError):
+    """A table that cannot be built as specified; one-line message."""
+
+
+@dataclass
+class Table:
+    """One fitted, verified table: the value every emitter and the report read."""
+    spec: object                 # gen.spec.TableSpec
+    piecewise: Piecewise1D
+    verification: dict
+    candidates: list
+    floor: float                 # error (tolerance units) from input/output rounding alone
+    monotone: int                # +1 increasing, -1 decreasing, 0 neither, over the range
+    forced_breaks: list = field(default_factory=list)
+    notes: list = field(default_factory=list)
+
+    @property
+    def name(self):
+        return self.spec.name
+
+
+def core_function(ts):
+    """f(x) in the user's units: the core at the SI image of ``x``, converted to the output unit."""
+    inp = ts.inputs[0]
+    qid = ts.quantity
+
+    def f(x):
+        si = np.asarray(x, dtype=np.float64) * inp.scale + inp.offset
+        y = Q.evaluate(qid, mask=True, **{inp.quantity: si})
+        return (np.asarray(y, dtype=np.float64) - ts.out_offset) / ts.out_scale
+    return f
+
+
+def error_scale(kind):
+    """Denominator of the error: 1 for an absolute tolerance, |f| for a relative one."""
+    if kind == "abs":
+        return lambda fy: np.ones_like(np.asarray(fy, dtype=np.float64))
+    return lambda fy: np.abs(np.asarray(fy, dtype=np.float64))
+
+
+def estimated_ops(pw):
+    """Rough operation count of one call (compares, multiplies, adds, loads), for ranking."""
+    d = pw.degree
+    if pw.layout == "free":
+        index = 3 * max(1, math.ceil(math.log2(max(pw.nseg, 2))))
+    elif pw.layout == "uniform":
+        index = 5
+    else:
+        index = 7
+    return 4 + index + 3 + 2 * d
+
+
+def _seed(ts, salt):
+    h = hashlib.sha256(f"{ts.quantity}|{ts.inputs}|{ts.tol_kind}|{ts.tol_value}|"
+                       f"{ts.arithmetic}|{salt}".encode()).digest()
+    return int.from_bytes(h[:8], "little")
+
+
+def _floor(f, scale, lo, hi, fmt):
+    """Error from rounding the input and the output to ``fmt`` alone (no approximation)."""
+    ft = arith.FORMATS[fmt]
+    x = np.linspace(lo, hi, 4097)
+    if lo > 0 and hi / lo > 1.5:
+        x = np.concatenate([x, np.geomspace(lo, hi, 4097)])
+    x = np.unique(x)
+    fx = f(x)
+    dfdx = np.gradient(fx, x)
+    ulp_in = np.spacing(x.astype(ft)).astype(np.float64)
+    ulp_out = np.spacing(np.abs(fx).astype(ft)).astype(np.float64)
+    return float(np.max((0.5 * ulp_out + 0.5 * np.abs(dfdx) * ulp_in) / scale(fx)))
+
+
+def _monotone(fx):
+    d = np.diff(fx)
+    if np.all(d > 0):
+        return 1
+    if np.all(d < 0):
+        return -1
+    return 0
+
+
+def _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt, monotone, coord, breaks, ts):
+    """Fit one candidate, tightening the budget until the quick verification meets ``tol``."""
+    budget = max(tol - 2.0 * floor, 0.3 * tol)
+    for attempt in range(MAX_REFITS):
+        pw = _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, ts.policy)
+        if pw is None:
+            return None, None, attempt
+        pw = S.seal_breakpoints(pw, monotone, skip=breaks)
+        v = verify_table(pw, f, scale, QUICK_POINTS, _seed(ts, f"quick{layout}{d}"), monotone,
+                         breaks)
+        if v["max_error"] <= ACCEPT * tol and v.get("monotone_reversals", 0) == 0:
+            return pw, v, attempt
+        budget *= min(0.8, 0.93 * tol / max(v["max_error"], 1e-300))
+        if budget < 0.5 * floor:
+            return None, v, attempt
+    return None, None, MAX_REFITS
+
+
+def _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, policy):
+    if layout == "free" and breaks:
+        edges = [lo] + list(breaks) + [hi]
+        xs, iws, cs = [], [], []
+        for a, b in zip(edges[:-1], edges[1:]):
+            r = S.place_free(f, scale, a, b, d, budget, fmt, monotone, coord)
+            if r is None:
+                return None
+            x, iw, c = r
+            xs.append(x if not xs else x[1:])
+            iws.append(iw)
+            cs.append(c)
+        r = (np.concatenate(xs), np.concatenate(iws), np.concatenate(cs))
+        pw = S.build_piecewise("free", r, lo, hi, fmt, policy)
+        return pw
+    pw = S.place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord)
+    if pw is None:
+        return None
+    return Piecewise1D(pw.layout, pw.fmt, pw.lo, pw.hi, pw.coef, policy, pw.x, pw.inv_w,
+                       pw.x0, pw.inv_h, pw.k, pw.key0)
+
+
+def build_table(ts, progress=None):
+    """Fit and verify one table spec; raises :class:`BuildError` when it cannot be met."""
+    inp = ts.inputs[0]
+    fmt = ts.arithmetic
+    ft = arith.FORMATS[fmt]
+    f = core_function(ts)
+    scale = error_scale(ts.tol_kind)
+    lo, hi = float(ft(inp.lo)), float(ft(inp.hi))
+    if lo < inp.lo:
+        lo = float(np.nextafter(ft(lo), ft(np.inf)))
+    if hi > inp.hi:
+        hi = float(np.nextafter(ft(hi), ft(-np.inf)))
+    tol = ts.tol_value
+    xs = np.linspace(lo, hi, 4097)
+    fx = f(xs)
+    if not np.all(np.isfinite(fx)):
+        raise BuildError(f"table {ts.name!r}: the core gives no value over part of the range")
+    monotone = _monotone(fx)
+    floor = _floor(f, scale, lo, hi, fmt)
+    unit = ts.output_unit if ts.tol_kind == "abs" else "(relative)"
+    if tol < 3.0 * floor:
+        feasible = float(f"{3.0 * floor:.2g}")
+        if feasible < 3.0 * floor:
+            feasible = float(f"{3.0 * floor * 1.05:.2g}")
+        raise BuildError(
+            f"table {ts.name!r}: key 'tolerance.{ts.tol_kind}': {tol:g} {unit} is below what "
+            f"{fmt} can deliver over {inp.lo:g} to {inp.hi:g} {inp.unit} (input and output "
+            f"rounding alone give up to {floor:.2g}); the smallest feasible is {feasible:g}")
+    coord = "log" if lo > 0 and hi / lo > 4.0 else "linear"
+    breaks = []
+    notes = []
+    sw = Q.SATURATION_SWITCH.get(inp.quantity)
+    if sw is not None:
+        xb = (sw - inp.offset) / inp.scale
+        if lo < xb < hi:
+            xb = float(ft(xb))
+            breaks.append(xb)
+            step = float(np.abs(f(np.array([np.nextafter(xb, -np.inf)])) - f(np.array([xb])))[0])
+            notes.append(
+                f"IF97 switches equations along saturation at 623.15 K ({xb:.6g} {inp.unit}); "
+                f"the core's value steps by {step:.3g} {ts.output_unit} there. A breakpoint sits "
+                f"at that input; the table follows the lower equation below it and the "
+                f"region-3 equation from it on.")
+    layouts = [ts.layout] if ts.layout else (
+        ["free", "uniform", "binade"] if ts.goal == "smallest" else ["uniform", "binade"])
+    if lo <= 0 and "binade" in layouts and not ts.layout:
+        layouts.remove("binade")
+    degrees = [ts.degree] if ts.degree else list(range(1, 6))
+    candidates = []
+    best = None
+    for layout in layouts:
+        for d in degrees:
+            if progress:
+                progress(f"{ts.name}: {layout} degree {d}")
+            pw, v, attempts = _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt,
+                                             monotone, coord, breaks, ts)
+            row = {"layout": layout, "degree": d, "met": pw is not None}
+            if pw is not None:
+                row.update({"segments": pw.nseg, "stored_values": pw.stored_values(),
+                            "storage_bytes": pw.storage_bytes, "estimated_ops": estimated_ops(pw),
+                            "quick_max_error": v["max_error"], "refits": attempts})
+                key = ((pw.storage_bytes, estimated_ops(pw)) if ts.goal == "smallest"
+                       else (estimated_ops(pw), pw.storage_bytes))
+                if best is None or key < best[0]:
+                    best = (key, pw)
+            candidates.append(row)
+    if best is None:
+        raise BuildError(
+            f"table {ts.name!r}: no layout/degree met tolerance {tol:g} {unit} within the "
+            f"segment limit; loosen the tolerance or narrow the range")
+    pw = best[1]
+    n = ts.verify_points
+    v = verify_table(pw, f, scale, n, _seed(ts, "final"), monotone, breaks)
+    if v["max_error"] > tol:
+        raise BuildError(
+            f"table {ts.name!r}: the chosen fit measured {v['max_error']:.3g} {unit} > "
+            f"tolerance {tol:g} on {v['points']} verification points")
+    for row in candidates:
+        row["chosen"] = (row["met"] and row["layout"] == pw.layout and row["degree"] == pw.degree)
+    return Table(spec=ts, piecewise=pw, verification=v, candidates=candidates, floor=floor,
+                 monotone=monotone, forced_breaks=breaks, notes=notes)
