@@ -105,6 +105,7 @@ class Spec:
     prefix: str
     description: str
     tables: tuple
+    command: str = ""     # how to regenerate, written into outputs (set by the caller)
 
 
 def _where(source, table=None, key=None):

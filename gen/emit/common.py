@@ -1,0 +1,134 @@
+"""What every emitter shares: literal formatting, escaping of spec text, the per-table summary.
+
+Offers ``hex_literal``, ``c_comment``, ``py_comment``, ``summary(table)``, ``CAUTION``,
+``template_env()``, ``provenance(spec)``.
+"""
+
+import math
+from pathlib import Path
+
+import jinja2
+import numpy as np
+
+from .. import __version__, arith
+
+CAUTION = ("CAUTION: not for safety functions (relief, trips, low-water cut-offs). Local codes, "
+           "the equipment standards and licensed engineers decide what may be used where.")
+
+TEMPLATES = Path(__file__).resolve().parent.parent.parent / "templates"
+
+
+def template_env():
+    """The jinja2 environment over ``templates/`` (layout only; no maths in templates)."""
+    root = TEMPLATES if TEMPLATES.is_dir() else Path(__file__).resolve().parent / "templates"
+    env = jinja2.Environment(loader=jinja2.FileSystemLoader(str(root)),
+                             undefined=jinja2.StrictUndefined, keep_trailing_newline=True,
+                             trim_blocks=True, lstrip_blocks=True, autoescape=False)
+    env.filters["c_comment"] = c_comment
+    env.filters["py_comment"] = py_comment
+    return env
+
+
+def hex_literal(value, fmt):
+    """Exact C99 hexadecimal floating literal of ``value`` (already in ``fmt``)."""
+    v = float(value)
+    if math.isnan(v) or math.isinf(v):
+        raise ValueError("no literal for non-finite coefficients")
+    h = v.hex()  # e.g. '-0x1.8000000000000p+3'
+    sign = "-" if h.startswith("-") else ""
+    h = h.lstrip("-")
+    mant, exp = h[2:].split("p")
+    if "." in mant:
+        head, frac = mant.split(".")
+        frac = frac.rstrip("0")
+        mant = head + ("." + frac if frac else "")
+    lit = f"{sign}0x{mant}p{exp}"
+    return lit + ("f" if fmt == "float32" else "")
+
+
+def decimal(value, fmt):
+    """Shortest decimal that rounds back to the same ``fmt`` value (for comments)."""
+    ft = arith.FORMATS[fmt]
+    return np.format_float_positional(ft(value), unique=True, trim="-") if abs(float(value)) >= 1e-4 \
+        and abs(float(value)) < 1e7 else np.format_float_scientific(ft(value), unique=True, trim="-")
+
+
+def _ascii_line(s):
+    s = " ".join(str(s).split())
+    return "".join(ch if 32 <= ord(ch) < 127 else "?" for ch in s)
+
+
+def c_comment(s):
+    """Text that is safe inside a C block comment: one line, ASCII, no '*/', no trigraphs."""
+    s = _ascii_line(s)
+    while "*/" in s or "/*" in s or "??" in s:
+        s = s.replace("*/", "* /").replace("/*", "/ *").replace("??", "? ?")
+    return s
+
+
+def py_comment(s):
+    """Text that is safe after '#' in Python: one line, ASCII."""
+    return _ascii_line(s)
+
+
+def provenance(spec):
+    return {"version": __version__, "spec_name": c_comment(spec.source_name),
+            "spec_sha256": spec.sha256, "command": c_comment(spec.command or f"h2olut build {spec.source_name}")}
+
+
+def _g(v, digits=6):
+    return f"{v:.{digits}g}"
+
+
+def _n(count, word):
+    return f"{count} {word}" + ("" if count == 1 else "s")
+
+
+def summary(table):
+    """Plain strings describing one table, the same for every emitter and the report."""
+    ts = table.spec
+    pw = table.piecewise
+    v = table.verification
+    inp = ts.inputs[0]
+    tol = (f"{_g(ts.tol_value)} {ts.output_unit}" if ts.tol_kind == "abs"
+           else f"{_g(ts.tol_value * 100)} % of the value")
+    err = (f"{v['max_error']:.3g} {ts.output_unit}" if ts.tol_kind == "abs"
+           else f"{v['max_error'] * 100:.3g} %")
+    gauge = " (gauge, atmosphere {:g} Pa)".format(inp.atmosphere) if inp.atmosphere else ""
+    method = {
+        "free": f"{_n(pw.nseg, 'segment')} of degree {pw.degree} on free breakpoints "
+                f"(binary search)",
+        "uniform": f"{_n(pw.nseg, 'equal segment')} of degree {pw.degree} (index computed, O(1))",
+        "binade": f"{_n(pw.nseg, 'segment')} of degree {pw.degree}, {2 ** pw.k} per octave of "
+                  f"the input (index from the float's bits, O(1))",
+    }[pw.layout]
+    ctype = "float" if pw.fmt == "float32" else "double"
+    return {
+        "name": ts.name,
+        "function": ts.function,
+        "quantity": ts.quantity,
+        "description": ts.description,
+        "input": inp.quantity,
+        "input_unit": inp.unit + gauge,
+        "range": f"{_g(inp.lo)} to {_g(inp.hi)} {inp.unit}{gauge}",
+        "output_unit": ts.output_unit,
+        "tolerance": tol,
+        "max_error": err,
+        "max_error_at": f"{_g(v['at'], 8)} {inp.unit}",
+        "points": v["points"],
+        "verified": (f"{err} at {_g(v['at'], 8)} {inp.unit}, the largest of {v['points']} sampled "
+                     f"points (ends, breakpoints and neighbours, per-segment worst, seeded random) "
+                     f"evaluated in {pw.fmt} emulation against the IF97 core; a sampled maximum, "
+                     f"not a bound"),
+        "fused": (None if "max_error_fused" not in v else
+                  (f"{v['max_error_fused']:.3g} {ts.output_unit}" if ts.tol_kind == "abs"
+                   else f"{v['max_error_fused'] * 100:.3g} %")),
+        "method": method,
+        "storage": f"{pw.storage_bytes} bytes ({pw.stored_values()} {ctype} values)",
+        "policy": {"clamp": "inputs outside the range are clamped to it; NaN gives NaN",
+                   "nan": "inputs outside the range give NaN; NaN gives NaN"}[pw.policy],
+        "arithmetic": pw.fmt,
+        "ctype": ctype,
+        "coefficients": ("Chebyshev-Lobatto interpolation of the IF97 core at "
+                         f"{pw.degree + 1} nodes per segment, rounded to {pw.fmt}"),
+    }
