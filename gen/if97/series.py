@@ -13,7 +13,7 @@ def _powers(x, exponents):
     out = {}
     need = sorted(set(int(e) for e in exponents))
     pos = [e for e in need if e > 0]
-    neg = [-e for e in need if e < 0]
+    neg = sorted(-e for e in need if e < 0)
     if 0 in need:
         out[0] = None  # marker: factor 1
     for sign, wanted, base in ((1, pos, x), (-1, neg, None)):
