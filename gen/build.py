@@ -22,7 +22,7 @@ from .fit.piecewise import Piecewise1D
 from .verify import verify_table
 
 #: points of the quick verification done for every candidate
-QUICK_POINTS = 20_000
+QUICK_POINTS = 4_000
 #: a candidate is accepted when its quick verification stays below this share of the tolerance
 #: (a sampled maximum can miss the true one; the margin keeps the final check honest)
 ACCEPT = 0.98

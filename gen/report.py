@@ -156,7 +156,7 @@ def error_plot(table, f, scale):
     pw = table.piecewise
     lo, hi = float(pw.lo), float(pw.hi)
     logx = lo > 0 and hi / lo > 20
-    x = np.geomspace(lo, hi, 6001) if logx else np.linspace(lo, hi, 6001)
+    x = np.geomspace(lo, hi, 2001) if logx else np.linspace(lo, hi, 2001)
     fx = f(x)
     e = (pw(x).astype(np.float64) - fx) / scale(fx)
     tol = ts.tol_value
