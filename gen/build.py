@@ -19,13 +19,15 @@ from . import arith
 from . import quantities as Q
 from .fit import segments as S
 from .fit.piecewise import Piecewise1D
-from .verify import verify_table
+from .verify import order_reversals, verify_table
 
 #: points of the quick verification done for every candidate
 QUICK_POINTS = 4_000
 #: a candidate is accepted when its quick verification stays below this share of the tolerance
 #: (a sampled maximum can miss the true one; the margin keeps the final check honest)
 ACCEPT = 0.98
+#: most segments any table may have
+S_MAX = 4096
 #: refits per candidate before it is given up
 MAX_REFITS = 6
 
@@ -111,30 +113,44 @@ def _monotone(fx):
     return 0
 
 
-def _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt, monotone, coord, breaks, ts):
-    """Fit one candidate, tightening the budget until the quick verification meets ``tol``."""
+def _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt, monotone, coord, breaks, ts,
+                   max_segments=S_MAX):
+    """Fit one candidate, tightening the budget until the quick verification meets ``tol``.
+
+    Returns (Piecewise1D or None, quick verification, refits, reason when None)."""
     budget = max(tol - 2.0 * floor, 0.3 * tol)
+    v = None
     for attempt in range(MAX_REFITS):
-        pw = _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, ts.policy)
+        pw = _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, ts.policy,
+                    max_segments)
         if pw is None:
-            return None, None, attempt
+            why = ("stopped: would store more than the best candidate"
+                   if max_segments < S_MAX else "tolerance not met within the segment limit")
+            return None, v, attempt, why
         pw = S.seal_breakpoints(pw, monotone, skip=breaks)
         v = verify_table(pw, f, scale, QUICK_POINTS, _seed(ts, f"quick{layout}{d}"), monotone,
                          breaks)
-        if v["max_error"] <= ACCEPT * tol and v.get("monotone_reversals", 0) == 0:
-            return pw, v, attempt
+        if v["max_error"] <= ACCEPT * tol:
+            rev = order_reversals(pw, monotone, breaks)
+            if rev:
+                return None, v, attempt, (f"{rev} order reversals in {fmt} on a dense sweep "
+                                          f"(the property is monotone)")
+            return pw, v, attempt, None
         budget *= min(0.8, 0.93 * tol / max(v["max_error"], 1e-300))
         if budget < 0.5 * floor:
-            return None, v, attempt
-    return None, None, MAX_REFITS
+            break
+    return None, v, MAX_REFITS, "tolerance not met: the format's rounding dominates"
 
 
-def _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, policy):
+def _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, policy,
+           max_segments=None):
+    max_segments = max_segments or S_MAX
     if layout == "free" and breaks:
         edges = [lo] + list(breaks) + [hi]
         xs, iws, cs = [], [], []
         for a, b in zip(edges[:-1], edges[1:]):
-            r = S.place_free(f, scale, a, b, d, budget, fmt, monotone, coord)
+            r = S.place_free(f, scale, a, b, d, budget, fmt, monotone, coord,
+                             max_segments=max_segments)
             if r is None:
                 return None
             x, iw, c = r
@@ -144,7 +160,7 @@ def _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, po
         r = (np.concatenate(xs), np.concatenate(iws), np.concatenate(cs))
         pw = S.build_piecewise("free", r, lo, hi, fmt, policy)
         return pw
-    pw = S.place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord)
+    pw = S.place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, max_segments)
     if pw is None:
         return None
     return Piecewise1D(pw.layout, pw.fmt, pw.lo, pw.hi, pw.coef, policy, pw.x, pw.inv_w,
@@ -195,54 +211,68 @@ def build_table(ts, progress=None):
                 f"at that input; the table follows the lower equation below it and the "
                 f"region-3 equation from it on.")
     layouts = [ts.layout] if ts.layout else (
-        ["free", "uniform", "binade"] if ts.goal == "smallest" else ["uniform", "binade"])
+        ["free", "binade", "uniform"] if ts.goal == "smallest" else ["uniform", "binade"])
     if lo <= 0 and "binade" in layouts and not ts.layout:
         layouts.remove("binade")
-    degrees = [ts.degree] if ts.degree else list(range(1, 6))
+    # highest degree first: for "smallest", once a lower degree stores more than the one above
+    # it, lower ones only store more still (many more segments), so the search stops there
+    degrees = [ts.degree] if ts.degree else list(range(5, 0, -1))
     candidates = []
-    met = []
+    n = ts.verify_points
+    best = None          # (key, index, pw, full verification): passed everything
+    first_ok = None      # the best within tolerance, should none be free of order reversals
     for layout in layouts:
+        previous = None
         for d in degrees:
             if progress:
                 progress(f"{ts.name}: {layout} degree {d}")
-            pw, v, attempts = _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt,
-                                             monotone, coord, breaks, ts)
+            # for "smallest", a candidate is only worth fitting while it can still store less
+            # than the best one so far (its coefficients alone need nseg * (d + 1) values)
+            cap = S_MAX
+            if ts.goal == "smallest" and best is not None:
+                cap = max(1, min(S_MAX, best[2].storage_bytes // (np.dtype(ft).itemsize * (d + 1))))
+            pw, v, attempts, why = _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt,
+                                                  monotone, coord, breaks, ts, cap)
             row = {"layout": layout, "degree": d, "met": pw is not None}
-            if pw is not None:
-                row.update({"segments": pw.nseg, "stored_values": pw.stored_values(),
-                            "storage_bytes": pw.storage_bytes, "estimated_ops": estimated_ops(pw),
-                            "quick_max_error": v["max_error"], "refits": attempts})
-                key = ((pw.storage_bytes, estimated_ops(pw)) if ts.goal == "smallest"
-                       else (estimated_ops(pw), pw.storage_bytes))
-                met.append((key, len(candidates), pw))
+            idx = len(candidates)
             candidates.append(row)
-    if not met:
-        raise BuildError(
-            f"table {ts.name!r}: no layout/degree met tolerance {tol:g} {unit} within the "
-            f"segment limit; loosen the tolerance or narrow the range")
-    # the best by the goal that also passes the full verification (tolerance, and order where
-    # the property is monotone); a candidate that fails is marked and the next one is tried
-    n = ts.verify_points
-    chosen, first_ok = None, None
-    for key, idx, pw in sorted(met, key=lambda m: (m[0], m[1])):
-        v = verify_table(pw, f, scale, n, _seed(ts, "final"), monotone, breaks)
-        within = v["max_error"] <= tol
-        if within and v.get("monotone_reversals", 0) == 0:
-            chosen = (idx, pw, v)
-            break
-        candidates[idx]["full_verification"] = (
-            "over tolerance" if not within else f"{v['monotone_reversals']} order reversals")
-        if within and first_ok is None:
-            first_ok = (idx, pw, v)
-    if chosen is None:
+            if pw is None:
+                row["why"] = why
+                continue
+            row.update({"segments": pw.nseg, "stored_values": pw.stored_values(),
+                        "storage_bytes": pw.storage_bytes, "estimated_ops": estimated_ops(pw),
+                        "quick_max_error": v["max_error"], "refits": attempts})
+            key = ((pw.storage_bytes, estimated_ops(pw)) if ts.goal == "smallest"
+                   else (estimated_ops(pw), pw.storage_bytes))
+            if best is None or key < best[0]:
+                # a new leader must pass the full verification (tolerance, and order where
+                # the property is monotone) before it counts
+                vf = verify_table(pw, f, scale, n, _seed(ts, "final"), monotone, breaks)
+                within = vf["max_error"] <= tol
+                if within and vf.get("monotone_reversals", 0) == 0:
+                    best = (key, idx, pw, vf)
+                else:
+                    row["full_verification"] = (
+                        "over tolerance" if not within
+                        else f"{vf['monotone_reversals']} order reversals")
+                    if within and (first_ok is None or key < first_ok[0]):
+                        first_ok = (key, idx, pw, vf)
+            if ts.goal == "smallest":
+                if previous is not None and pw.storage_bytes > previous:
+                    break
+                previous = pw.storage_bytes
+    if best is None:
         if first_ok is None:
             raise BuildError(
-                f"table {ts.name!r}: no candidate met tolerance {tol:g} {unit} on the full "
-                f"{n}-point verification; loosen the tolerance or narrow the range")
-        chosen = first_ok
+                f"table {ts.name!r}: no layout/degree met tolerance {tol:g} {unit} on the "
+                f"verification within the segment limit; loosen the tolerance or narrow the "
+                f"range")
+        best = first_ok
         notes.append("No candidate was free of order reversals in the target arithmetic on "
                      "the full verification; the best one within tolerance is used and its "
                      "reversals are counted above.")
+    _, idx, pw, v = best
+    chosen = (idx, pw, v)
     idx, pw, v = chosen
     for i, row in enumerate(candidates):
         row["chosen"] = i == idx

@@ -137,7 +137,10 @@ def report_markdown(spec, tables, plots):
                   "|---|---|---|---|---|---|"]
         for c in t.candidates:
             mark = " (chosen)" if c.get("chosen") else ""
-            lines.append(f"| {c['layout']}{mark} | {c['degree']} | {'yes' if c['met'] else 'no'} | "
+            met = "yes" if c["met"] else ("no: " + c.get("why", ""))
+            if c.get("full_verification"):
+                met += f" (passed over: {c['full_verification']} on the full verification)"
+            lines.append(f"| {c['layout']}{mark} | {c['degree']} | {_md(met)} | "
                          f"{c.get('segments', '')} | {c.get('storage_bytes', '')} | "
                          f"{c.get('estimated_ops', '')} |")
         if t.name in plots:

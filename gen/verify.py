@@ -58,6 +58,36 @@ def verification_points(pw, n, seed, f=None, scale=None):
                                      "segment_worst": int(worst.size)}
 
 
+def order_reversals(pw, monotone, steps=(), n=1 << 17):
+    """Reversals of order in the emulated function over a dense sorted sweep (no core needed):
+    ``n`` points spread over the range plus the 16 floats around every breakpoint."""
+    if not monotone:
+        return 0
+    ft = arith.FORMATS[pw.fmt]
+    lo, hi = float(pw.lo), float(pw.hi)
+    xs = [np.linspace(lo, hi, n)]
+    if lo > 0 and hi / lo > 1.5:
+        xs.append(np.geomspace(lo, hi, n))
+    b = pw.breakpoints().astype(ft)
+    near = [b]
+    for _ in range(8):
+        near.append(np.nextafter(near[-1], ft(np.inf)))
+    up = near[-1]
+    down = b
+    for _ in range(8):
+        down = np.nextafter(down, ft(-np.inf))
+        near.append(down)
+    del up
+    xs.append(np.concatenate(near).astype(np.float64))
+    x = np.unique(np.clip(np.concatenate(xs), lo, hi).astype(ft))
+    y = pw(x).astype(np.float64)
+    rev = np.diff(y) * monotone < 0
+    xk = x.astype(np.float64)
+    for s in steps:
+        rev &= ~((xk[:-1] < s) & (xk[1:] >= s))
+    return int(np.sum(rev))
+
+
 def verify_table(pw, f, scale, n, seed, monotone=0, steps=()):
     """Measure the emitted function's total error at ``n`` points; return a result dict.
 

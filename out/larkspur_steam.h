@@ -65,14 +65,14 @@ int32_t lvc_boiler_tsat_status(float x, float *y);
  *   input      pressure in bar, range 2 to 12 bar
  *   output     saturated_vapor_density in kg/m^3
  *   tolerance  0.05 % of the value
- *   verified   0.0291 % at 2.4825045 bar, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
- *   with FMA   0.0291 % when the compiler fuses y*t + c (emulated)
- *   method     1 equal segment of degree 4 (index computed, O(1)), float32
- *   storage    20 bytes (5 float values)
+ *   verified   0.0239 % at 2.4253822 bar, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
+ *   with FMA   0.0239 % when the compiler fuses y*t + c (emulated)
+ *   method     2 equal segments of degree 3 (index computed, O(1)), float32
+ *   storage    32 bytes (8 float values)
  *   outside    inputs outside the range are clamped to it; NaN gives NaN
  */
-#define LVC_STEAM_DENSITY_SEGMENTS 1
-#define LVC_STEAM_DENSITY_DEGREE 4
+#define LVC_STEAM_DENSITY_SEGMENTS 2
+#define LVC_STEAM_DENSITY_DEGREE 3
 #define LVC_STEAM_DENSITY_MIN 0x1p+1f /* 2 */
 #define LVC_STEAM_DENSITY_MAX 0x1.8p+3f /* 12 */
 float lvc_steam_density(float x);

@@ -19,9 +19,7 @@ cp, cv and (d rho/d p)_T for the industrial-formulation tables (7-9) come from I
 * ``source="iapws"``: the ``iapws`` package's IF97 (``iapws.IAPWS97`` for (T, p) points,
   its region-3 function for (T, rho) points). This checks transport.py on its own.
 * ``source="gen"``: this package's IF97 modules (gen/if97/region1.py, region2.py,
-  region3.py). Region 3 is used now (Table 9). Regions 1 and 2 are wired but switched off:
-  SWITCH-TO-GEN-IF97 -- set ``GEN_IF97_REGIONS`` below to include 1 and 2 once
-  gen/if97/region1.py and region2.py reproduce R7-97(2012) Tables 5 and 15.
+  region3.py), for Tables 7 (region 1), 8 (region 2) and 9 (region 3).
 """
 
 import importlib
@@ -34,8 +32,8 @@ import pytest
 from gen.if97 import transport as tr
 from gen.if97.constants import TC
 
-#: SWITCH-TO-GEN-IF97: regions whose gen/if97 module feeds the industrial-formulation checks
-GEN_IF97_REGIONS = (3,)
+#: regions whose gen/if97 module feeds the industrial-formulation checks
+GEN_IF97_REGIONS = (1, 2, 3)
 
 
 def assert_printed(value, printed, scale=1.0):

@@ -132,14 +132,21 @@ def horner_slope(coef, t):
     return horner(dc, t)
 
 
-def _check(f, xmap, coef, ta, tb, scale, budget, monotone):
-    """Max error (error units) of each segment on interior check points; monotone flags."""
+def _check_points(ta, tb):
+    """Interior check points (n, CHECK_POINTS) in local variables, clear of every node set."""
     m = CHECK_POINTS
     s = (np.arange(m) + 0.5) / m
-    s = s + 0.37 / m * np.sin(7.0 * s)  # stay clear of the nodes of every degree
-    tt = ta[:, None] + (tb - ta)[:, None] * s[None, :]
-    xx = xmap(tt)
-    fy = f(xx)
+    s = s + 0.37 / m * np.sin(7.0 * s)
+    return ta[:, None] + (tb - ta)[:, None] * s[None, :]
+
+
+def _check(f, xmap, coef, ta, tb, scale, budget, monotone, fy=None):
+    """Max error (error units) of each segment on interior check points; monotone flags.
+
+    ``fy`` may hold f at the check points already (evaluated together with the nodes)."""
+    tt = _check_points(ta, tb)
+    if fy is None:
+        fy = f(xmap(tt))
     err = np.abs(horner(coef, tt) - fy) / scale(fy)
     emax = np.max(err, axis=1)
     ok = emax <= budget
@@ -154,6 +161,19 @@ def _check(f, xmap, coef, ta, tb, scale, budget, monotone):
     return emax, ok
 
 
+def _fit_and_check(f, xmap, ta, tb, d, scale, budget, monotone):
+    """Fit and check many segments with a single evaluation of ``f``."""
+    s = lobatto_nodes(d)[None, :]
+    tn = ta[:, None] + (tb - ta)[:, None] * s
+    tn[:, -1] = tb
+    tt = _check_points(ta, tb)
+    both = f(xmap(np.concatenate([tn, tt], axis=1)))
+    yn, fy = both[:, :d + 1], both[:, d + 1:]
+    coef, _, _ = fit_interval(f, xmap, ta, tb, d, fx=yn)
+    emax, ok = _check(f, xmap, coef, ta, tb, scale, budget, monotone, fy=fy)
+    return coef, emax, ok
+
+
 def _free_probe(f, scale, fmt, a, ends, d, budget, monotone):
     """Fit [a, end] for each candidate end; return accept flags and fits."""
     ft = arith.FORMATS[fmt]
@@ -166,8 +186,8 @@ def _free_probe(f, scale, fmt, a, ends, d, budget, monotone):
     def xmap(t, _a=starts, _iw=inv_w):
         return _a[:, None] + t / _iw[:, None]
 
-    coef, _, _ = fit_interval(f, xmap, np.zeros_like(tend), tend, d)
-    emax, ok = _check(f, xmap, coef, np.zeros_like(tend), tend, scale, budget, monotone)
+    ta = np.zeros_like(tend)
+    coef, emax, ok = _fit_and_check(f, xmap, ta, tend, d, scale, budget, monotone)
     return ends, ok, coef, inv_w
 
 
@@ -237,9 +257,7 @@ def _fit_all(f, scale, d, budget, monotone, starts, widths, ta, tb):
     def xmap(t):
         return starts[:, None] + t * widths[:, None]
 
-    coef, _, _ = fit_interval(f, xmap, ta, tb, d)
-    emax, ok = _check(f, xmap, coef, ta, tb, scale, budget, monotone)
-    return coef, emax, ok
+    return _fit_and_check(f, xmap, ta, tb, d, scale, budget, monotone)
 
 
 def uniform_segments(lo, hi, n, fmt):
@@ -268,9 +286,9 @@ def place_uniform(f, scale, lo, hi, d, budget, fmt, monotone=0, max_segments=409
         good, res = trial(n_hi)
         if good:
             break
-        n_hi *= 2
-        if n_hi > max_segments:
+        if n_hi >= max_segments:
             return None
+        n_hi = min(2 * n_hi, max_segments)
     if n_hi == 1:
         return res
     n_lo = n_hi // 2
@@ -335,14 +353,17 @@ def build_piecewise(layout, result, lo, hi, fmt, policy):
     return Piecewise1D("binade", fmt, lo, hi, round_table(coef, fmt), policy, k=k, key0=key0)
 
 
-def place(layout, f, scale, lo, hi, d, budget, fmt, monotone=0, coord="linear"):
-    """Dispatch to the placement of ``layout``; returns a Piecewise1D or None."""
+def place(layout, f, scale, lo, hi, d, budget, fmt, monotone=0, coord="linear",
+          max_segments=4096):
+    """Dispatch to the placement of ``layout``; returns a Piecewise1D or None (also when more
+    than ``max_segments`` would be needed)."""
     if layout == "free":
-        r = place_free(f, scale, lo, hi, d, budget, fmt, monotone, coord)
+        r = place_free(f, scale, lo, hi, d, budget, fmt, monotone, coord,
+                       max_segments=max_segments)
     elif layout == "uniform":
-        r = place_uniform(f, scale, lo, hi, d, budget, fmt, monotone)
+        r = place_uniform(f, scale, lo, hi, d, budget, fmt, monotone, max_segments=max_segments)
     else:
-        r = place_binade(f, scale, lo, hi, d, budget, fmt, monotone)
+        r = place_binade(f, scale, lo, hi, d, budget, fmt, monotone, max_segments=max_segments)
     if r is None:
         return None
     return build_piecewise(layout, r, lo, hi, fmt, "clamp")
