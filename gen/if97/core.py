@@ -6,6 +6,7 @@ Offers
     ``props_pT(p, T, phase=None, mask=False, transport=False)`` -> dict incl. ``region``
     ``temperature_ph(p, h, mask=False)``, ``temperature_ps(p, s, mask=False)``
     ``quality_ph(p, h)``  vapour mass fraction in the wet region, NaN outside it
+    ``mixture_T(T, x)``, ``mixture_p(p, x)``  wet-steam v, rho, u, h, s from quality
     ``surface_tension(T)``
 
 Property dictionaries use the keys of :mod:`gen.if97.props`, plus ``mu`` (Pa s) and
@@ -197,6 +198,25 @@ def quality_ph(p, h):
     return np.where(ok & (x >= 0) & (x <= 1), x, np.nan)
 
 
+def mixture_T(T, x):
+    """Two-phase mixture at saturation temperature ``T`` and quality ``x`` (0 liquid, 1 vapour):
+    v, u, h, s are mass-weighted (lever rule), rho = 1/v. NaN where x is outside [0, 1]."""
+    T, x = np.broadcast_arrays(np.asarray(T, dtype=np.float64), np.asarray(x, dtype=np.float64))
+    liq, vap = saturated_states(T)
+    ok = (x >= 0) & (x <= 1)
+    out = {}
+    for k in ("v", "u", "h", "s"):
+        out[k] = np.where(ok, (1.0 - x) * liq[k] + x * vap[k], np.nan)
+    out["rho"] = 1.0 / out["v"]
+    return out
+
+
+def mixture_p(p, x):
+    """Two-phase mixture at saturation pressure ``p`` and quality ``x``."""
+    return mixture_T(region4.saturation_temperature(p), x)
+
+
 __all__ = ["saturation_pressure", "saturation_temperature", "dpsat_dT", "saturated_states",
-           "props_pT", "temperature_ph", "temperature_ps", "quality_ph", "surface_tension",
+           "props_pT", "temperature_ph", "temperature_ps", "quality_ph", "mixture_T", "mixture_p",
+           "surface_tension",
            "T_MAX", "TC"]
