@@ -35,10 +35,10 @@ float lvc_autoclave_tsat(float x)
     if (x != x) {
         return x; /* not a number in, not a number out */
     }
-    if (x < LVC_AUTOCLAVE_TSAT_MIN) {
-        x = LVC_AUTOCLAVE_TSAT_MIN;
-    } else if (x > LVC_AUTOCLAVE_TSAT_MAX) {
-        x = LVC_AUTOCLAVE_TSAT_MAX;
+    if (x < 0x0p+0f) {
+        x = 0x0p+0f;
+    } else if (x > 0x1p+2f) {
+        x = 0x1p+2f;
     }
     u = (x - 0x0p+0f) * 0x1.8p-1f; /* x0 = 0e+00, inv_h = 0.75 */
     i = (int32_t)u;
@@ -69,6 +69,7 @@ int32_t lvc_autoclave_tsat_status(float x, float *y)
     }
     return LVC_IN_RANGE;
 }
+
 
 /* ---- lvc_boiler_tsat: saturation_temperature [degC] from pressure [bar]
  * 80 segments of degree 1, 16 per octave of the input (index from the float's bits, O(1)); tolerance 0.02 degC; verified 0.0152 degC at 8.2466701 bar (100000 sampled points).
@@ -169,10 +170,10 @@ float lvc_boiler_tsat(float x)
     if (x != x) {
         return x; /* not a number in, not a number out */
     }
-    if (x < LVC_BOILER_TSAT_MIN) {
-        x = LVC_BOILER_TSAT_MIN;
-    } else if (x > LVC_BOILER_TSAT_MAX) {
-        x = LVC_BOILER_TSAT_MAX;
+    if (x < 0x1p-1f) {
+        x = 0x1p-1f;
+    } else if (x > 0x1p+4f) {
+        x = 0x1p+4f;
     }
     memcpy(&bits, &x, sizeof bits);
     i = (bits >> 19u) - 2016u;
@@ -206,6 +207,7 @@ int32_t lvc_boiler_tsat_status(float x, float *y)
     return LVC_IN_RANGE;
 }
 
+
 /* ---- lvc_steam_density: saturated_vapor_density [kg/m^3] from pressure [bar]
  * 2 equal segments of degree 3 (index computed, O(1)); tolerance 0.05 % of the value; verified 0.0239 % at 2.4253822 bar (100000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 4 nodes per segment, rounded to float32.
@@ -226,10 +228,10 @@ float lvc_steam_density(float x)
     if (x != x) {
         return x; /* not a number in, not a number out */
     }
-    if (x < LVC_STEAM_DENSITY_MIN) {
-        x = LVC_STEAM_DENSITY_MIN;
-    } else if (x > LVC_STEAM_DENSITY_MAX) {
-        x = LVC_STEAM_DENSITY_MAX;
+    if (x < 0x1p+1f) {
+        x = 0x1p+1f;
+    } else if (x > 0x1.8p+3f) {
+        x = 0x1.8p+3f;
     }
     u = (x - 0x1p+1f) * 0x1.99999ap-3f; /* x0 = 2, inv_h = 0.2 */
     i = (int32_t)u;
@@ -260,6 +262,7 @@ int32_t lvc_steam_density_status(float x, float *y)
     return LVC_IN_RANGE;
 }
 
+
 /* ---- lvc_steam_latent: latent_heat [kJ/kg] from pressure [bar]
  * 3 segments of degree 3, 1 per octave of the input (index from the float's bits, O(1)); tolerance 0.1 kJ/kg; verified 0.0555 kJ/kg at 5.9521526 bar (100000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 4 nodes per segment, rounded to float32.
@@ -282,10 +285,10 @@ float lvc_steam_latent(float x)
     if (x != x) {
         return x; /* not a number in, not a number out */
     }
-    if (x < LVC_STEAM_LATENT_MIN) {
-        x = LVC_STEAM_LATENT_MIN;
-    } else if (x > LVC_STEAM_LATENT_MAX) {
-        x = LVC_STEAM_LATENT_MAX;
+    if (x < 0x1p+1f) {
+        x = 0x1p+1f;
+    } else if (x > 0x1.8p+3f) {
+        x = 0x1.8p+3f;
     }
     memcpy(&bits, &x, sizeof bits);
     i = (bits >> 23u) - 128u;
@@ -321,6 +324,7 @@ int32_t lvc_steam_latent_status(float x, float *y)
     return LVC_IN_RANGE;
 }
 
+
 /* ---- lvc_condensate_h: saturated_liquid_enthalpy [kJ/kg] from temperature [degC]
  * 1 equal segment of degree 4 (index computed, O(1)); tolerance 0.05 kJ/kg; verified 0.0126 kJ/kg at 142.46572 degC (100000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 5 nodes per segment, rounded to float32.
@@ -340,10 +344,10 @@ float lvc_condensate_h(float x)
     if (x != x) {
         return x; /* not a number in, not a number out */
     }
-    if (x < LVC_CONDENSATE_H_MIN) {
-        x = LVC_CONDENSATE_H_MIN;
-    } else if (x > LVC_CONDENSATE_H_MAX) {
-        x = LVC_CONDENSATE_H_MAX;
+    if (x < 0x1.4p+5f) {
+        x = 0x1.4p+5f;
+    } else if (x > 0x1.7cp+7f) {
+        x = 0x1.7cp+7f;
     }
     u = (x - 0x1.4p+5f) * 0x1.b4e81cp-8f; /* x0 = 40, inv_h = 0.006666667 */
     i = (int32_t)u;
@@ -375,6 +379,7 @@ int32_t lvc_condensate_h_status(float x, float *y)
     return LVC_IN_RANGE;
 }
 
+
 /* ---- lvc_cooler_psat: saturation_pressure [mbar] from temperature [degC]
  * 1 equal segment of degree 5 (index computed, O(1)); tolerance 0.02 % of the value; verified 0.00372 % at 13.064895 degC (100000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 6 nodes per segment, rounded to float32.
@@ -394,10 +399,10 @@ float lvc_cooler_psat(float x)
     if (x != x) {
         return x; /* not a number in, not a number out */
     }
-    if (x < LVC_COOLER_PSAT_MIN) {
-        x = LVC_COOLER_PSAT_MIN;
-    } else if (x > LVC_COOLER_PSAT_MAX) {
-        x = LVC_COOLER_PSAT_MAX;
+    if (x < 0x1p+1f) {
+        x = 0x1p+1f;
+    } else if (x > 0x1.ep+5f) {
+        x = 0x1.ep+5f;
     }
     u = (x - 0x1p+1f) * 0x1.1a7b96p-6f; /* x0 = 2, inv_h = 0.01724138 */
     i = (int32_t)u;
@@ -429,4 +434,5 @@ int32_t lvc_cooler_psat_status(float x, float *y)
     }
     return LVC_IN_RANGE;
 }
+
 
