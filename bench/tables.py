@@ -249,17 +249,7 @@ def baseline_search(f, scale, lo, hi, tol):
         trials += 1
         if e <= tol:
             break
-        n = int(n * 1.005) + 1
-    # the error is C/N^2 plus float32 noise, so near the boundary pass/fail can flip; step down
-    # while the denser check still passes so that the N reported is locally the smallest
-    for _ in range(12):
-        if n <= 1:
-            break
-        e2, npts2, tab2 = baseline_error(f, scale, lo, hi, n - 1, dense=True)
-        trials += 1
-        if e2 > tol:
-            break
-        n, e, npts, tab = n - 1, e2, npts2, tab2
+        n += max(1, n // 4000)
     e_below = baseline_error(f, scale, lo, hi, n - 1, dense=True)[0] if n > 1 else float("inf")
     return {"n": n, "error": e, "points": npts, "bytes": tab.storage_bytes,
             "error_n_minus_1": e_below, "trials": trials}
@@ -500,6 +490,9 @@ def main():
     print("error measured against the core at every interval middle, 2 more seeded points per")
     print("interval and 100000 random points (half uniform, half log-uniform), smallest N by")
     print("bisection, then confirmed on 8 points per interval, node neighbours and 200000 more.")
+    print("Rounding the stored values to float32 moves the maximum by about 1e-3 of it, so")
+    print("pass/fail flickers over a few hundredths of a percent of N: N is where the bisection")
+    print("lands, the smallest N only to that precision.")
     for c in cases:
         ts, table = c["ts"], c["table"]
         pw = table.piecewise
@@ -512,7 +505,9 @@ def main():
         target = RATIO_TARGET[ts.name]
         print(f"{ts.name:7s} baseline N={base['n']} ({base['n'] + 1} values, {base['bytes']} "
               f"bytes, max error {tol_text(ts, base['error'], 6)} on {base['points']} points; "
-              f"N-1 gives {tol_text(ts, base['error_n_minus_1'], 6)}; {base['trials']} trials, "
+              f"N-1 gives {tol_text(ts, base['error_n_minus_1'], 6)}"
+              f"{' (also within)' if base['error_n_minus_1'] <= ts.tol_value else ''}; "
+              f"{base['trials']} trials, "
               f"{time.perf_counter() - t0:.1f} s)")
         print(f"        h2olut {pw.storage_bytes} bytes -> ratio {ratio:.1f}x "
               f"(target >= {target:g}x) {verdict(ratio >= target)}")
