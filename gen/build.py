@@ -47,6 +47,7 @@ class Table:
     monotone: int                # +1 increasing, -1 decreasing, 0 neither, over the range
     forced_breaks: list = field(default_factory=list)
     notes: list = field(default_factory=list)
+    budget: dict = None          # sensor error budget (gen.sensor.budget) when a sensor is given
 
     @property
     def name(self):
@@ -102,6 +103,23 @@ def _floor(f, scale, lo, hi, fmt):
     ulp_in = np.spacing(x.astype(ft)).astype(np.float64)
     ulp_out = np.spacing(np.abs(fx).astype(ft)).astype(np.float64)
     return float(np.max((0.5 * ulp_out + 0.5 * np.abs(dfdx) * ulp_in) / scale(fx)))
+
+
+def _first_upper_float(inp, x, fmt):
+    """The smallest input in ``fmt`` on which the core uses the region-3 equation."""
+    ft = arith.FORMATS[fmt]
+    v = ft(x)
+    up = lambda a: bool(Q.on_upper_equation(inp.quantity, np.float64(a) * inp.scale + inp.offset))  # noqa: E731
+    for _ in range(64):
+        if up(v):
+            break
+        v = np.nextafter(v, ft(np.inf))
+    for _ in range(64):
+        prev = np.nextafter(v, ft(-np.inf))
+        if not up(prev):
+            break
+        v = prev
+    return float(v)
 
 
 def _monotone(fx):
@@ -199,17 +217,19 @@ def build_table(ts, progress=None):
     breaks = []
     notes = []
     sw = Q.SATURATION_SWITCH.get(inp.quantity)
-    if sw is not None:
+    if sw is not None and Q.CATALOGUE[ts.quantity].family == "saturation":
         xb = (sw - inp.offset) / inp.scale
         if lo < xb < hi:
-            xb = float(ft(xb))
+            xb = _first_upper_float(inp, xb, fmt)
+            below = np.nextafter(ft(xb), ft(-np.inf)).astype(np.float64)
+            step = float(np.abs(f(np.array([xb])) - f(np.array([below])))[0])
             breaks.append(xb)
-            step = float(np.abs(f(np.array([np.nextafter(xb, -np.inf)])) - f(np.array([xb])))[0])
             notes.append(
-                f"IF97 switches equations along saturation at 623.15 K ({xb:.6g} {inp.unit}); "
-                f"the core's value steps by {step:.3g} {ts.output_unit} there. A breakpoint sits "
-                f"at that input; the table follows the lower equation below it and the "
-                f"region-3 equation from it on.")
+                f"IF97 switches from the region 1/2 equations to region 3 along saturation at "
+                f"623.15 K ({xb:.9g} {inp.unit}, the first {fmt} input on region 3). Between "
+                f"that input and the {fmt} value just below it the core itself steps by "
+                f"{step:.3g} {ts.output_unit}. A breakpoint sits exactly there; the table "
+                f"follows region 1/2 below it and region 3 from it on.")
     layouts = [ts.layout] if ts.layout else (
         ["free", "binade", "uniform"] if ts.goal == "smallest" else ["uniform", "binade"])
     if lo <= 0 and "binade" in layouts and not ts.layout:
@@ -276,5 +296,9 @@ def build_table(ts, progress=None):
     idx, pw, v = chosen
     for i, row in enumerate(candidates):
         row["chosen"] = i == idx
-    return Table(spec=ts, piecewise=pw, verification=v, candidates=candidates, floor=floor,
-                 monotone=monotone, forced_breaks=breaks, notes=notes)
+    table = Table(spec=ts, piecewise=pw, verification=v, candidates=candidates, floor=floor,
+                  monotone=monotone, forced_breaks=breaks, notes=notes)
+    if ts.sensor is not None:
+        from .sensor import budget
+        table.budget = budget(table, f)
+    return table

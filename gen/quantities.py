@@ -109,6 +109,15 @@ SATURATION_RANGE = {"pressure": (P_SAT_MIN, K.PC), "temperature": (K.T_MIN, K.TC
 SATURATION_SWITCH = {"temperature": K.T_13, "pressure": 16.529164253e6}
 
 
+def on_upper_equation(name, si):
+    """True where the core evaluates a saturation state with the region-3 equation
+    (saturation temperature above 623.15 K); ``name`` is the input, ``si`` its SI values."""
+    from .if97 import core
+    si = np.asarray(si, dtype=np.float64)
+    T = si if name == "temperature" else core.saturation_temperature(si)
+    return T > K.T_13
+
+
 def input_range(quantity, names):
     """SI (lo, hi) of each input of ``quantity`` (a box; single phase needs more checks)."""
     q = CATALOGUE[quantity]

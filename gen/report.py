@@ -65,6 +65,8 @@ def table_record(table):
         "candidates": table.candidates,
         "notes": table.notes,
     }
+    if table.budget is not None:
+        rec["sensor_budget"] = table.budget
     return rec
 
 
@@ -132,6 +134,19 @@ def report_markdown(spec, tables, plots):
                          f"the sorted verification points: {v.get('monotone_reversals')}")
         for n in t.notes:
             lines.append(f"- note: {_md(n)}")
+        if t.budget is not None:
+            b = t.budget
+            k, u = (100.0, "%") if b["kind"] == "rel" else (1.0, t.spec.output_unit)
+            verdict = ("FLAGGED: the table's error is not small against the sensor's"
+                       if b["flag"] else "the table's error is small against the sensor's")
+            lines += [
+                f"- sensor: {_md(b['sensor'])}; it alone causes an output uncertainty of "
+                f"{b['output_uncertainty_min'] * k:.3g} to {b['output_uncertainty_max'] * k:.3g} "
+                f"{_md(u)} across the range (slope of the core times the sensor's uncertainty)",
+                f"- table error / sensor-caused uncertainty: at most {b['ratio_max']:.3g} "
+                f"(at {b['ratio_max_at']:.6g} {_md(t.spec.inputs[0].unit)}); {verdict} "
+                f"(rule: {_md(b['rule'])})",
+            ]
         lines += ["", "Candidates tried:", "",
                   "| layout | degree | met | segments | storage bytes | est. operations |",
                   "|---|---|---|---|---|---|"]
@@ -170,6 +185,13 @@ def error_plot(table, f, scale):
     ax.plot(x, e * k, lw=0.6, color="#1f4e79", label="error of the emitted code")
     ax.axhline(tol * k, color="#b22222", lw=1.0, ls="--", label="tolerance")
     ax.axhline(-tol * k, color="#b22222", lw=1.0, ls="--")
+    if ts.sensor is not None:
+        from .sensor import slope
+        uy = np.abs(slope(ts, x)) * ts.sensor.uncertainty(x)
+        if ts.tol_kind == "rel":
+            uy = uy / np.abs(fx)
+        ax.fill_between(x, -uy * k, uy * k, color="#f2c14e", alpha=0.35, lw=0,
+                        label="caused by the sensor alone")
     for b in pw.breakpoints()[1:-1]:
         ax.axvline(b, color="0.75", lw=0.5)
     if logx:

@@ -50,7 +50,7 @@ MAX_VERIFY_POINTS = 5_000_000
 
 _TOP_KEYS = {"name", "prefix", "description", "table", "verify_points"}
 _TABLE_KEYS = {"name", "quantity", "description", "output_unit", "tolerance", "arithmetic",
-               "out_of_range", "goal", "degree", "layout", "verify_points"}
+               "out_of_range", "goal", "degree", "layout", "verify_points", "sensor"}
 _INPUT_KEYS = {"unit", "min", "max", "atmosphere"}
 
 
@@ -90,6 +90,7 @@ class TableSpec:
     degree: int = None
     layout: str = None
     verify_points: int = DEFAULT_VERIFY_POINTS
+    sensor: object = None     # gen.sensor.Sensor feeding the input, or None
 
     @property
     def output_kind(self):
@@ -255,10 +256,17 @@ def _table(source, index, t, prefix, default_vp):
         if layout == "binade" and inputs[0].lo <= 0:
             _err(source, label, "layout", "binade needs a positive input range (min > 0)")
     vp = _verify_points(source, label, t.get("verify_points", default_vp))
+    sensor = None
+    if "sensor" in t:
+        from .sensor import SensorError, parse_sensor
+        try:
+            sensor = parse_sensor(t["sensor"], f"{_where(source, label)} ")
+        except SensorError as e:
+            raise SpecError(str(e)) from None
     return TableSpec(name=tname, function=function, quantity=qid, description=description,
                      inputs=inputs, output_unit=out_unit, out_scale=oscale, out_offset=ooffset,
                      tol_kind=kind, tol_value=value, arithmetic=arithmetic, policy=policy,
-                     goal=goal, degree=degree, layout=layout, verify_points=vp)
+                     goal=goal, degree=degree, layout=layout, verify_points=vp, sensor=sensor)
 
 
 def _input(source, label, qid, name, t):
