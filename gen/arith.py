@@ -118,3 +118,53 @@ def status(xin, fmt, lo, hi):
     s[xf > ft(hi)] = ABOVE
     s[np.isnan(xf)] = NOT_A_NUMBER
     return s
+
+
+def _mad(a, b, c, fused, ft):
+    """a*b + c in the format: two roundings, or one when a compiler fuses them."""
+    if fused and ft is np.float32:
+        return (a.astype(np.float64) * b + c).astype(ft)
+    return a * b + c
+
+
+def evaluate_saturation_line(xin, fmt, kind, n, a, b, c, d, lo, hi, policy, fused=False):
+    """The IF97 saturation-line equations evaluated in the target format, step by step.
+
+    ``kind`` is ``"temperature"`` (T_sat from p, IAPWS R7-97(2012) eq. 31 in the
+    cancellation-free form: D as the root of E D^2 + F D + G = 0 that avoids subtracting
+    like-signed terms, then T = (n10 + D - sqrt((D - n10)^2 - 4 n9)) / 2) or ``"pressure"``
+    (p_sat from T, eq. 30). ``n`` are n1..n10 in the format; the input in the user's unit maps
+    to MPa or K as ``x*a + b`` and the result to the user's unit as ``v*c + d``.
+    """
+    ft = FORMATS[fmt]
+    n1, n2, n3, n4, n5, n6, n7, n8, n9, n10 = [ft(v) for v in n]
+    a, b, c, d = ft(a), ft(b), ft(c), ft(d)
+    two, four, half = ft(2.0), ft(4.0), ft(0.5)
+    xf = np.atleast_1d(np.asarray(xin).astype(ft))
+    lo, hi = ft(lo), ft(hi)
+    xc = np.minimum(np.maximum(xf, lo), hi)
+    xc = np.where(np.isnan(xf), xf, xc)
+    v = _mad(xc, a, b, fused, ft)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        if kind == "temperature":
+            beta = np.sqrt(np.sqrt(v))
+            E = _mad(beta + n3, beta, n6, fused, ft)
+            F = _mad(_mad(n1, beta, n4, fused, ft), beta, n7, fused, ft)
+            G = _mad(_mad(n2, beta, n5, fused, ft), beta, n8, fused, ft)
+            root = np.sqrt(F * F - four * E * G)
+            D = np.where(F >= ft(0.0), (two * G) / (-F - root), (root - F) / (two * E))
+            dn = D - n10
+            r = half * (n10 + D - np.sqrt(dn * dn - four * n9))
+        else:
+            th = v + n9 / (v - n10)
+            A = _mad(th + n1, th, n2, fused, ft)
+            B = _mad(_mad(n3, th, n4, fused, ft), th, n5, fused, ft)
+            C = _mad(_mad(n6, th, n7, fused, ft), th, n8, fused, ft)
+            q = (two * C) / (-B + np.sqrt(B * B - four * A * C))
+            q2 = q * q
+            r = q2 * q2
+    y = _mad(r, c, d, fused, ft)
+    y = np.where(np.isnan(xf), xf, y)
+    if policy == "nan":
+        y = np.where((xf < lo) | (xf > hi), ft(np.nan), y)
+    return y

@@ -19,6 +19,7 @@ from . import arith
 from . import quantities as Q
 from .fit import segments as S
 from .fit.piecewise import Piecewise1D
+from .closedform import closed_form_for
 from .verify import order_reversals, verify_table
 
 #: points of the quick verification done for every candidate
@@ -75,6 +76,8 @@ def error_scale(kind):
 
 def estimated_ops(pw):
     """Rough operation count of one call (compares, multiplies, adds, loads), for ranking."""
+    if hasattr(pw, "estimated_ops"):
+        return pw.estimated_ops()
     d = pw.degree
     if pw.layout == "free":
         index = 3 * max(1, math.ceil(math.log2(max(pw.nseg, 2))))
@@ -217,7 +220,8 @@ def build_table(ts, progress=None):
     breaks = []
     notes = []
     sw = Q.SATURATION_SWITCH.get(inp.quantity)
-    if sw is not None and Q.CATALOGUE[ts.quantity].family == "saturation":
+    smooth = ("saturation_temperature", "saturation_pressure", "surface_tension")
+    if sw is not None and ts.quantity not in smooth:
         xb = (sw - inp.offset) / inp.scale
         if lo < xb < hi:
             xb = _first_upper_float(inp, xb, fmt)
@@ -230,8 +234,14 @@ def build_table(ts, progress=None):
                 f"that input and the {fmt} value just below it the core itself steps by "
                 f"{step:.3g} {ts.output_unit}. A breakpoint sits exactly there; the table "
                 f"follows region 1/2 below it and region 3 from it on.")
-    layouts = [ts.layout] if ts.layout else (
-        ["free", "binade", "uniform"] if ts.goal == "smallest" else ["uniform", "binade"])
+    if ts.layout == "closed_form":
+        layouts = []
+    elif ts.layout:
+        layouts = [ts.layout]
+    elif ts.goal == "smallest":
+        layouts = ["free", "binade", "uniform"]
+    else:
+        layouts = ["uniform", "binade"]
     if lo <= 0 and "binade" in layouts and not ts.layout:
         layouts.remove("binade")
     # highest degree first: for "smallest", once a lower degree stores more than the one above
@@ -281,6 +291,28 @@ def build_table(ts, progress=None):
                 if previous is not None and pw.storage_bytes > previous:
                     break
                 previous = pw.storage_bytes
+    cf = closed_form_for(ts, lo, hi) if (ts.layout in (None, "closed_form")
+                                         and ts.degree is None) else None
+    if cf is not None:
+        # IF97's own saturation-line equation in the target arithmetic: a candidate too
+        row = {"layout": "closed_form", "degree": "-", "segments": 1,
+               "stored_values": cf.stored_values(), "storage_bytes": cf.storage_bytes,
+               "estimated_ops": cf.estimated_ops()}
+        idx = len(candidates)
+        candidates.append(row)
+        vf = verify_table(cf, f, scale, n, _seed(ts, "final"), monotone, breaks)
+        rev = vf.get("monotone_reversals", 0)
+        row["met"] = vf["max_error"] <= tol and rev == 0
+        row["quick_max_error"] = vf["max_error"]
+        key = ((cf.storage_bytes, cf.estimated_ops()) if ts.goal == "smallest"
+               else (cf.estimated_ops(), cf.storage_bytes))
+        if not row["met"]:
+            row["why"] = ("tolerance not met" if vf["max_error"] > tol
+                          else f"{rev} order reversals on the full verification")
+            if vf["max_error"] <= tol and (first_ok is None or key < first_ok[0]):
+                first_ok = (key, idx, cf, vf)
+        elif best is None or key < best[0]:
+            best = (key, idx, cf, vf)
     if best is None:
         if first_ok is None:
             raise BuildError(
@@ -292,8 +324,6 @@ def build_table(ts, progress=None):
                      "the full verification; the best one within tolerance is used and its "
                      "reversals are counted above.")
     _, idx, pw, v = best
-    chosen = (idx, pw, v)
-    idx, pw, v = chosen
     for i, row in enumerate(candidates):
         row["chosen"] = i == idx
     table = Table(spec=ts, piecewise=pw, verification=v, candidates=candidates, floor=floor,

@@ -53,7 +53,7 @@ def table_record(table):
             "format_floor": table.floor,
         },
         "method": {
-            "kind": "piecewise_polynomial",
+            "kind": "closed_form" if pw.layout == "closed_form" else "piecewise_polynomial",
             "layout": pw.layout,
             "segments": pw.nseg,
             "degree": pw.degree,
@@ -198,8 +198,11 @@ def error_plot(table, f, scale):
         ax.set_xscale("log")
     ax.set_xlabel(f"{ts.inputs[0].quantity} [{ts.inputs[0].unit}]")
     ax.set_ylabel(f"error [{unit}]")
-    ax.set_title(f"{ts.function}: {pw.fmt}, {pw.nseg} segments (grey lines), "
-                 f"degree {pw.degree}", fontsize=9)
+    if pw.layout == "closed_form":
+        ax.set_title(f"{ts.function}: {pw.fmt}, IF97 saturation-line equation", fontsize=9)
+    else:
+        ax.set_title(f"{ts.function}: {pw.fmt}, {pw.nseg} segments (grey lines), "
+                     f"degree {pw.degree}", fontsize=9)
     ax.legend(loc="upper right", fontsize=7)
     fig.tight_layout()
     buf = io.BytesIO()

@@ -43,7 +43,7 @@ _FILE_NAME = re.compile(r"^[A-Za-z0-9_][A-Za-z0-9_.-]*$")
 ARITHMETIC = ("float32", "float64")
 POLICIES = ("clamp", "nan")
 GOALS = ("smallest", "fastest")
-LAYOUTS = ("free", "uniform", "binade")
+LAYOUTS = ("free", "uniform", "binade", "closed_form")
 DEGREES = (1, 2, 3, 4, 5)
 DEFAULT_VERIFY_POINTS = 100_000
 MAX_VERIFY_POINTS = 5_000_000
@@ -255,6 +255,11 @@ def _table(source, index, t, prefix, default_vp):
         _choice(source, label, "layout", layout, LAYOUTS)
         if layout == "binade" and inputs[0].lo <= 0:
             _err(source, label, "layout", "binade needs a positive input range (min > 0)")
+        if layout == "closed_form" and qid not in ("saturation_temperature", "saturation_pressure"):
+            _err(source, label, "layout", "closed_form exists for saturation_temperature and "
+                 "saturation_pressure only (IF97's saturation-line equation)")
+        if layout == "closed_form" and degree is not None:
+            _err(source, label, "degree", "a closed_form has no degree; drop one of the two keys")
     vp = _verify_points(source, label, t.get("verify_points", default_vp))
     sensor = None
     if "sensor" in t:

@@ -56,11 +56,20 @@ def table_context(table):
         "lo_dec": decimal(pw.lo, fmt),
         "hi_dec": decimal(pw.hi, fmt),
         "policy": pw.policy,
+    }
+    if pw.layout == "closed_form":
+        names = [f"n{i}" for i in range(1, 11)] + ["a", "b", "c", "d"]
+        ctx["kind"] = pw.kind
+        ctx["consts"] = [{"name": nm, "lit": hex_literal(v, fmt), "dec": decimal(v, fmt)}
+                         for nm, v in zip(names, pw.constants())]
+        ctx["ncon"] = len(names)
+        return ctx
+    ctx.update({
         "coef_rows": _rows(pw.coef, fmt, b, ts.inputs[0].unit),
         "horner": [f"c[{j}]" for j in range(1, pw.degree + 1)],
         "formula": "y = " + "(" * (pw.degree - 1) + "c[0]*t" + "".join(
             f" + c[{j}])*t" if j < pw.degree else f" + c[{j}]" for j in range(1, pw.degree + 1)),
-    }
+    })
     if pw.layout == "free":
         ctx["x_lines"] = _list(pw.x[:-1], fmt)
         ctx["iw_lines"] = _list(pw.inv_w, fmt)
@@ -131,7 +140,8 @@ def render_c(spec, tables, base, references):
     for tc, t in zip(ctx["tables"], tables):
         tc["vec"] = vectors_context(t, references[t.name])
     ctx["needs_string"] = any(t.piecewise.layout == "binade" for t in tables)
-    ctx["needs_math"] = any(t.piecewise.policy == "nan" for t in tables)
+    ctx["needs_math"] = any(t.piecewise.policy == "nan" or t.piecewise.layout == "closed_form"
+                            for t in tables)
     return {f"{base}.h": env.get_template("c_header.h.j2").render(ctx),
             f"{base}.c": env.get_template("c_source.c.j2").render(ctx),
             f"{base}_vectors.c": env.get_template("c_vectors.c.j2").render(ctx)}

@@ -95,13 +95,24 @@ def summary(table):
     err = (f"{v['max_error']:.3g} {ts.output_unit}" if ts.tol_kind == "abs"
            else f"{v['max_error'] * 100:.3g} %")
     gauge = " (gauge, atmosphere {:g} Pa)".format(inp.atmosphere) if inp.atmosphere else ""
-    method = {
-        "free": f"{_n(pw.nseg, 'segment')} of degree {pw.degree} on free breakpoints "
-                f"(binary search)",
-        "uniform": f"{_n(pw.nseg, 'equal segment')} of degree {pw.degree} (index computed, O(1))",
-        "binade": f"{_n(pw.nseg, 'segment')} of degree {pw.degree}, {2 ** pw.k} per octave of "
-                  f"the input (index from the float's bits, O(1))",
-    }[pw.layout]
+    if pw.layout == "closed_form":
+        eq = "eq. 31" if pw.kind == "temperature" else "eq. 30"
+        roots = "3 square roots" if pw.kind == "temperature" else "1 square root"
+        method = (f"IF97 saturation-line equation (IAPWS R7-97(2012) {eq}) evaluated in "
+                  f"{pw.fmt}: {roots}, 2 divisions, no table")
+        coefficients = (f"n1..n10 of IAPWS R7-97(2012) Table 34 rounded to {pw.fmt}, and the "
+                        f"unit conversion constants")
+    else:
+        method = {
+            "free": f"{_n(pw.nseg, 'segment')} of degree {pw.degree} on free breakpoints "
+                    f"(binary search)",
+            "uniform": f"{_n(pw.nseg, 'equal segment')} of degree {pw.degree} (index computed, "
+                       f"O(1))",
+            "binade": f"{_n(pw.nseg, 'segment')} of degree {pw.degree}, {2 ** pw.k} per octave "
+                      f"of the input (index from the float's bits, O(1))",
+        }[pw.layout]
+        coefficients = ("Chebyshev-Lobatto interpolation of the IF97 core at "
+                        f"{pw.degree + 1} nodes per segment, rounded to {pw.fmt}")
     ctype = "float" if pw.fmt == "float32" else "double"
     return {
         "name": ts.name,
@@ -129,6 +140,5 @@ def summary(table):
                    "nan": "inputs outside the range give NaN; NaN gives NaN"}[pw.policy],
         "arithmetic": pw.fmt,
         "ctype": ctype,
-        "coefficients": ("Chebyshev-Lobatto interpolation of the IF97 core at "
-                         f"{pw.degree + 1} nodes per segment, rounded to {pw.fmt}"),
+        "coefficients": coefficients,
     }

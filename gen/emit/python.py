@@ -19,6 +19,8 @@ def _hex_list(values, per_line=3):
 def _py_table(t):
     pw = t.piecewise
     hx = lambda v: f'float.fromhex("{float(v).hex()}")'  # noqa: E731
+    if pw.layout == "closed_form":
+        return {"lo": hx(pw.lo), "hi": hx(pw.hi), "k_lines": _hex_list(pw.constants())}
     tab = {"lo": hx(pw.lo), "hi": hx(pw.hi), "coef_lines": _hex_list(pw.coef.ravel()),
            "x": "None", "inv_w": "None", "x0": "None", "inv_h": "None", "k": pw.k,
            "key0": pw.key0}
