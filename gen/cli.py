@@ -201,7 +201,7 @@ def state(pressure, temperature, phase, system):
             for qid in _SAT:
                 show(qid, Q.evaluate(qid, temperature=T))
     except ValueError as e:
-        raise InputError(str(e).splitlines()[0]) from None
+        raise InputError(" ".join(str(e).split())) from None
     click.echo(head)
     width = max(len(r[0]) for r in rows)
     for name, val, unit in rows:

@@ -99,10 +99,18 @@ _SAT_KEY = {"saturated_liquid_density": ("liquid", "rho"),
             "saturated_liquid_entropy": ("liquid", "s"),
             "saturated_vapor_entropy": ("vapor", "s")}
 
-P_SAT_MIN = 611.212677  # p_sat(273.15 K), Pa; IAPWS R7-97(2012) eq. 30 at 273.15 K
+def _p_sat(T):
+    from .if97 import region4
+    return float(region4.saturation_pressure(T))
+
+
+P_SAT_MIN = _p_sat(K.T_MIN)  # p_sat(273.15 K) = 611.2127 Pa (IAPWS R7-97(2012) eq. 30)
+#: eq. 30 at TC gives 22.064 MPa + 0.3 mPa: the pressure limit is the larger of the two, so that
+#: p_sat(TC) and PC are both inside
+P_SAT_MAX = max(K.PC, _p_sat(K.TC))
 
 #: SI validity of saturation inputs (IF97 region 4: 273.15 K to the critical point)
-SATURATION_RANGE = {"pressure": (P_SAT_MIN, K.PC), "temperature": (K.T_MIN, K.TC)}
+SATURATION_RANGE = {"pressure": (P_SAT_MIN, P_SAT_MAX), "temperature": (K.T_MIN, K.TC)}
 
 #: lines where the core switches equations along saturation (a breakpoint goes there):
 #: 623.15 K, the region 1|3 and 2|3 split, and its saturation pressure (R7-97(2012) eq. 30)
@@ -131,9 +139,14 @@ def _fmt(v):
     return f"{v:.9g}"
 
 
+#: relative slack at the ends of a saturation range: values within it are taken as the end
+#: (eq. 30 and eq. 31 map the ends onto each other only to round-off)
+END_SLACK = 1e-12
+
+
 def _check_range(name, value, lo, hi, mask):
     v = np.asarray(value, dtype=np.float64)
-    bad = ~((v >= lo) & (v <= hi))
+    bad = ~((v >= lo * (1 - END_SLACK)) & (v <= hi * (1 + END_SLACK)))
     if not mask and np.any(bad):
         first = v[bad].flat[0] if v.ndim else float(v)
         unit = {"pressure": "Pa", "temperature": "K"}.get(name, "SI")
@@ -148,7 +161,7 @@ def _saturation(quantity, inputs, mask):
     lo, hi = SATURATION_RANGE[name]
     x = np.asarray(value, dtype=np.float64)
     bad = _check_range(name, x, lo, hi, mask)
-    xs = np.where(bad, lo, x)
+    xs = np.where(bad, lo, np.clip(x, lo, hi))
     if quantity == "saturation_temperature":
         out = core.saturation_temperature(xs)
     elif quantity == "saturation_pressure":
@@ -177,6 +190,16 @@ def evaluate(quantity, *, mask=False, phase=None, **inputs):
     if not any(set(names) == set(t) for t in q.inputs):
         want = " or ".join("(" + ", ".join(t) + ")" for t in q.inputs)
         raise TypeError(f"{quantity} takes {want}, not ({', '.join(names)})")
+    try:
+        return _evaluate(q, quantity, inputs, mask, phase)
+    except OutOfRange:
+        raise
+    except ValueError as e:
+        # the core's own range checks: same class and one readable line
+        raise OutOfRange(" ".join(str(e).split())) from None
+
+
+def _evaluate(q, quantity, inputs, mask, phase):
     if q.family == "saturation":
         return _saturation(quantity, inputs, mask)
     from .if97 import core

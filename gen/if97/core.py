@@ -27,6 +27,10 @@ saturation_temperature = region4.saturation_temperature
 dpsat_dT = region4.dpsat_dT
 surface_tension = transport.surface_tension
 
+#: relative tolerance within which a (p, h) or (p, s) on a region 1|3 or 2|3 boundary value is
+#: taken as the region 1 or 2 state
+BOUNDARY_SLACK = 1e-12
+
 #: saturation pressure at 623.15 K, Pa (where the region-3 part of the saturation line starts)
 P_13 = float(region4.saturation_pressure(T_13))
 
@@ -145,8 +149,12 @@ def _backward(p, y, key, mask):
         from .b23 import b23_temperature
         tb = b23_temperature(ps)
         y23 = region2.props(ps, tb)[key]
-        r1 = yf[sub] <= y13
-        r2 = yf[sub] >= y23
+        # ties within round-off of a boundary value go to region 1 or 2, whose equations
+        # define the boundary state (IF97 is not exactly continuous there: region 3 would
+        # give a T a few mK off, outside region 3). The slack covers the round-off of h or s
+        # (~1e-14 relative, cancelling near 623.15 K) and of inverting B23 (~1e-10 K)
+        r1 = yf[sub] <= y13 + BOUNDARY_SLACK * np.abs(y13)
+        r2 = ~r1 & (yf[sub] >= y23 - BOUNDARY_SLACK * np.abs(y23))
         r3 = ~r1 & ~r2
         fn1 = region1.temperature_ph if key == "h" else region1.temperature_ps
         fn2 = region2.temperature_ph if key == "h" else region2.temperature_ps
