@@ -193,7 +193,10 @@ def error_plot(table, f, scale):
         ax.fill_between(x, -uy * k, uy * k, color="#f2c14e", alpha=0.35, lw=0,
                         label="caused by the sensor alone")
     for b in pw.breakpoints()[1:-1]:
-        ax.axvline(b, color="0.75", lw=0.5)
+        ax.axvline(b, color="0.75", lw=0.5, zorder=0)
+    lim = 1.4 * max(tol, float(np.nanmax(np.abs(e)))) * k
+    ax.set_ylim(-lim, lim)  # the sensor band may run past it: the table error stays readable
+    ax.set_xlim(lo, hi)
     if logx:
         ax.set_xscale("log")
     ax.set_xlabel(f"{ts.inputs[0].quantity} [{ts.inputs[0].unit}]")
@@ -204,7 +207,7 @@ def error_plot(table, f, scale):
         ax.set_title(f"{ts.function}: {pw.fmt}, {pw.nseg} segments (grey lines), "
                      f"degree {pw.degree}", fontsize=9)
     ax.legend(loc="upper right", fontsize=7)
-    fig.tight_layout()
+    fig.subplots_adjust(left=0.1, right=0.98, top=0.9, bottom=0.15)
     buf = io.BytesIO()
     fig.savefig(buf, format="png", metadata={"Software": None})
     return buf.getvalue()
