@@ -13,20 +13,12 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from printed import assert_printed, half_unit  # noqa: F401
 from gen.if97 import b23, region2, region4
 
 
-def half_ulp(printed):
-    """Half a unit of the last printed digit of a value printed like '0.394913866e2'."""
-    mant, _, exp = printed.lower().partition("e")
-    decimals = len(mant.split(".")[1]) if "." in mant else 0
-    return 0.5 * 10.0 ** (int(exp or 0) - decimals)
 
 
-def assert_printed(computed, printed):
-    ref, tol = float(printed), half_ulp(printed)
-    err = abs(float(computed) - ref)
-    assert err <= tol * (1 + 1e-9), f"{float(computed)!r} vs printed {printed} (tol {tol:g})"
 
 
 TO_TABLE_UNIT = {"v": 1.0, "h": 1e-3, "u": 1e-3, "s": 1e-3, "cp": 1e-3, "w": 1.0}

@@ -3,21 +3,13 @@
 import numpy as np
 import pytest
 
+from printed import assert_printed
 from gen.if97 import region3
 from gen.if97.constants import PC, RHOC, TC
 
 
-def printed(s):
-    """(value, half unit of the last printed digit) of a number as a release table prints it."""
-    mant, _, exp = s.lower().partition("e")
-    digits = mant.split(".")[1] if "." in mant else ""
-    return float(s), 0.5 * 10.0 ** (int(exp or 0) - len(digits))
 
 
-def assert_printed(value, s, scale=1.0):
-    """Assert ``value`` (SI) rounds to the printed ``s`` (release units; SI = scale * release)."""
-    ref, half = printed(s)
-    assert abs(value / scale - ref) <= half * (1.0 + 1e-9), (value / scale, s)
 
 
 # IAPWS R7-97(2012) Table 33: properties from Eq. (28) at (T, rho); p MPa, h u kJ/kg,

@@ -11,6 +11,7 @@ import numpy as np
 import pytest
 from hypothesis import given, settings, strategies as st
 
+from printed import assert_printed
 from gen.if97 import region3
 from gen.if97 import region3_backward as r3b
 from gen.if97.b23 import b23_pressure
@@ -21,16 +22,8 @@ MPA = 1e6
 P_SAT_623 = float(saturation_pressure(623.15))
 
 
-def printed(s):
-    mant, _, exp = s.lower().partition("e")
-    digits = mant.split(".")[1] if "." in mant else ""
-    return float(s), 0.5 * 10.0 ** (int(exp or 0) - len(digits))
 
 
-def assert_printed(value, s, scale=1.0):
-    """``value`` (SI) rounds to the printed ``s`` (release units, SI = scale * release)."""
-    ref, half = printed(s)
-    assert abs(float(value) / scale - ref) <= half * (1.0 + 1e-9), (float(value) / scale, s)
 
 
 # ------------------------------------------------------------------------------------------

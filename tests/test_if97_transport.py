@@ -29,6 +29,7 @@ from decimal import Decimal
 import numpy as np
 import pytest
 
+from printed import assert_printed
 from gen.if97 import transport as tr
 from gen.if97.constants import TC
 
@@ -36,16 +37,6 @@ from gen.if97.constants import TC
 GEN_IF97_REGIONS = (1, 2, 3)
 
 
-def assert_printed(value, printed, scale=1.0):
-    """``value * scale`` agrees with the string ``printed`` to its last printed digit."""
-    v = float(np.asarray(value)) * scale
-    exp = Decimal(printed).as_tuple().exponent
-    half_ulp = 0.5 * 10.0 ** exp
-    ref = float(printed)
-    # 1e-12 relative slack only for the binary representation of the printed number itself
-    assert abs(v - ref) <= half_ulp + 1e-12 * abs(ref), (
-        f"{v!r} does not round to printed {printed} (|diff| = {abs(v - ref):.3g}, "
-        f"allowed {half_ulp:.3g})")
 
 
 # ----------------------------------------------------------------------------------------------
@@ -111,7 +102,7 @@ R12_TABLE4 = [
 
 @pytest.mark.parametrize("T,rho,mu", R12_TABLE4)
 def test_viscosity_r12_table4(T, rho, mu):
-    assert_printed(tr.viscosity(rho, T), mu, scale=1e6)  # R12-08 Table 4
+    assert_printed(tr.viscosity(rho, T), mu, unit=1e-6)  # R12-08 Table 4
 
 
 def test_viscosity_r12_table4_vectorized():
@@ -120,7 +111,7 @@ def test_viscosity_r12_table4_vectorized():
     mu = tr.viscosity(rho, T)
     assert mu.shape == T.shape
     for m, (_, _, printed) in zip(mu, R12_TABLE4):
-        assert_printed(m, printed, scale=1e6)  # R12-08 Table 4
+        assert_printed(m, printed, unit=1e-6)  # R12-08 Table 4
 
 
 # ----------------------------------------------------------------------------------------------
@@ -140,13 +131,13 @@ R15_TABLE4 = [
 def test_conductivity_r15_table4_background(T, rho, lam):
     # lambda0 * lambda1 only: Table 4 is printed with lambda2 = 0. cp/cv/drhodp are dummies.
     lam0, lam1, _ = tr.thermal_conductivity_terms(rho, T, 4000.0, 3000.0, 0.0)
-    assert_printed(lam0 * lam1, lam, scale=1e3)  # R15-11 Table 4
+    assert_printed(lam0 * lam1, lam, unit=1e-3)  # R15-11 Table 4
 
 
 def test_conductivity_r15_table4_zero_density_has_no_enhancement():
     # at rho = 0, Eq. (18) is proportional to rho bar, so the full function must give Table 4
     lam = tr.thermal_conductivity(0.0, 298.15, 1900.0, 1400.0, 1e-5)
-    assert_printed(lam, "18.4341883", scale=1e3)  # R15-11 Table 4
+    assert_printed(lam, "18.4341883", unit=1e-3)  # R15-11 Table 4
 
 
 # R15-11 Table 5: lambda0 bar(647.35 K) = 51.5764797 for all rows, and lambda1 bar at
@@ -167,7 +158,7 @@ R15_TABLE5_LAMBDA1 = [
 @pytest.mark.parametrize("rho,lam1", R15_TABLE5_LAMBDA1)
 def test_conductivity_r15_table5_lambda0_lambda1(rho, lam1):
     lam0, l1, _ = tr.thermal_conductivity_terms(rho, 647.35, 4000.0, 3000.0, 0.0)
-    assert_printed(lam0, R15_TABLE5_LAMBDA0, scale=1e3)  # R15-11 Table 5, lambda0 bar
+    assert_printed(lam0, R15_TABLE5_LAMBDA0, unit=1e-3)  # R15-11 Table 5, lambda0 bar
     assert_printed(l1, lam1)  # R15-11 Table 5, lambda1 bar
 
 
@@ -200,17 +191,17 @@ R15_TABLE9 = [
 def test_conductivity_r15_table7_region1(source, T, p, lam, lam0, lam1, lam2):
     rho, cp, cv, drhodp = if97_inputs(source, 1, T, p=p)
     t0, t1, t2 = tr.thermal_conductivity_terms(rho, T, cp, cv, drhodp)
-    assert_printed(t0, lam0, scale=1e3)  # R15-11 Table 7, lambda0 bar
+    assert_printed(t0, lam0, unit=1e-3)  # R15-11 Table 7, lambda0 bar
     assert_printed(t1, lam1)  # R15-11 Table 7, lambda1 bar
-    assert_printed(t2, lam2, scale=1e3)  # R15-11 Table 7, lambda2 bar
-    assert_printed(tr.thermal_conductivity(rho, T, cp, cv, drhodp), lam, scale=1e3)  # Table 7
+    assert_printed(t2, lam2, unit=1e-3)  # R15-11 Table 7, lambda2 bar
+    assert_printed(tr.thermal_conductivity(rho, T, cp, cv, drhodp), lam, unit=1e-3)  # Table 7
 
 
 @pytest.mark.parametrize("source", SOURCES)
 @pytest.mark.parametrize("T,p,lam", R15_TABLE8)
 def test_conductivity_r15_table8_region2(source, T, p, lam):
     rho, cp, cv, drhodp = if97_inputs(source, 2, T, p=p)
-    assert_printed(tr.thermal_conductivity(rho, T, cp, cv, drhodp), lam, scale=1e3)  # Table 8
+    assert_printed(tr.thermal_conductivity(rho, T, cp, cv, drhodp), lam, unit=1e-3)  # Table 8
 
 
 @pytest.mark.parametrize("source", SOURCES)
@@ -218,7 +209,7 @@ def test_conductivity_r15_table8_region2(source, T, p, lam):
 def test_conductivity_r15_table9_region3(source, T, rho, lam):
     rho_, cp, cv, drhodp = if97_inputs(source, 3, T, rho=rho)
     assert rho_ == rho
-    assert_printed(tr.thermal_conductivity(rho, T, cp, cv, drhodp), lam, scale=1e3)  # Table 9
+    assert_printed(tr.thermal_conductivity(rho, T, cp, cv, drhodp), lam, unit=1e-3)  # Table 9
 
 
 def test_conductivity_industrial_tables_vectorized():
@@ -231,7 +222,7 @@ def test_conductivity_industrial_tables_vectorized():
     lam = tr.thermal_conductivity(cols[:, 0], T, cols[:, 1], cols[:, 2], cols[:, 3])
     assert lam.shape == T.shape
     for value, pt in zip(lam, pts):
-        assert_printed(value, pt[4], scale=1e3)  # R15-11 Tables 7, 8, 9
+        assert_printed(value, pt[4], unit=1e-3)  # R15-11 Tables 7, 8, 9
 
 
 # ----------------------------------------------------------------------------------------------
@@ -249,14 +240,14 @@ R1_TABLE1 = [
 
 @pytest.mark.parametrize("t,sigma", R1_TABLE1)
 def test_surface_tension_r1_table1(t, sigma):
-    assert_printed(tr.surface_tension(t + 273.15), sigma, scale=1e3)  # R1-76(2014) Table 1
+    assert_printed(tr.surface_tension(t + 273.15), sigma, unit=1e-3)  # R1-76(2014) Table 1
 
 
 def test_surface_tension_vectorized_and_range():
     T = np.array([t for t, _ in R1_TABLE1]) + 273.15
     s = tr.surface_tension(T, check=True)
     for value, (_, printed) in zip(s, R1_TABLE1):
-        assert_printed(value, printed, scale=1e3)  # R1-76(2014) Table 1
+        assert_printed(value, printed, unit=1e-3)  # R1-76(2014) Table 1
     # ends of the range: zero at the critical point, finite at -25 C, NaN outside
     assert float(tr.surface_tension(TC)) == 0.0
     assert np.isfinite(tr.surface_tension(248.15))
