@@ -12,6 +12,7 @@ from pathlib import Path
 from . import __version__
 from .build import build_table, core_function, error_scale
 from .emit.c import render_c
+from .emit.common import generator_digest
 from .emit.python import render_python
 from .report import error_plot, report_json, report_markdown
 
@@ -74,15 +75,17 @@ def write_outputs(outdir, files):
 def _committed_inputs(outdir):
     try:
         doc = json.loads((Path(outdir) / "report.json").read_text(encoding="utf-8"))
-        return doc["spec"]["sha256"], doc["generator"]["version"], doc
+        gen = doc["generator"]
+        return doc["spec"]["sha256"], gen["version"], gen.get("source_sha256"), doc
     except (OSError, ValueError, KeyError, TypeError):
-        return None, None, None
+        return None, None, None, None
 
 
 def compare_outputs(outdir, files, spec):
     """Files in ``outdir`` that differ from ``files``, each with a one-line reason."""
-    sha, version, doc = _committed_inputs(outdir)
-    same_inputs = sha == spec.sha256 and version == __version__
+    sha, version, source, doc = _committed_inputs(outdir)
+    same_source = source == generator_digest()
+    same_inputs = sha == spec.sha256 and version == __version__ and same_source
     problems = []
     for name, data in sorted(files.items()):
         path = Path(outdir) / name
@@ -96,8 +99,10 @@ def compare_outputs(outdir, files, spec):
                                    "(another numerical platform?)"))
         elif sha != spec.sha256:
             problems.append((name, "stale: the spec changed"))
-        else:
+        elif version != __version__:
             problems.append((name, f"stale: written by h2olut {version}, this is {__version__}"))
+        else:
+            problems.append((name, "stale: the generator's sources changed since it was written"))
     if problems and same_inputs and doc is not None:
         new = json.loads(files["report.json"])
         for old_t, new_t in zip(doc.get("tables", []), new["tables"]):

@@ -11,7 +11,7 @@ import json
 import numpy as np
 
 from . import __version__
-from .emit.common import CAUTION, summary
+from .emit.common import CAUTION, generator_digest, summary
 
 SCHEMA_VERSION = "h2olut-report/1"
 
@@ -73,7 +73,8 @@ def table_record(table):
 def report_json(spec, tables):
     doc = {
         "schema": SCHEMA_VERSION,
-        "generator": {"name": "h2olut", "version": __version__},
+        "generator": {"name": "h2olut", "version": __version__,
+                      "source_sha256": generator_digest()},
         "spec": {"file": spec.source_name, "sha256": spec.sha256, "name": spec.name,
                  "prefix": spec.prefix},
         "caution": CAUTION,

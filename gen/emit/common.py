@@ -71,6 +71,20 @@ def py_comment(s):
     return _ascii_line(s)
 
 
+def generator_digest():
+    """sha256 over the generator's own sources (package and templates), so that 'check' can
+    tell a changed generator from a changed platform even within one version number."""
+    import hashlib
+    h = hashlib.sha256()
+    pkg = Path(__file__).resolve().parent.parent
+    files = sorted(list(pkg.rglob("*.py")) + list(pkg.rglob("*.json"))
+                   + list(TEMPLATES.glob("*.j2")))
+    for p in files:
+        rel = p.relative_to(pkg.parent).as_posix()
+        h.update(rel.encode() + b"\0" + p.read_bytes().replace(b"\r\n", b"\n") + b"\0")
+    return h.hexdigest()
+
+
 def provenance(spec):
     return {"version": __version__, "spec_name": c_comment(spec.source_name),
             "spec_sha256": spec.sha256, "command": c_comment(spec.command or f"h2olut build {spec.source_name}")}
