@@ -27,6 +27,9 @@ QUICK_POINTS = 4_000
 #: a candidate is accepted when its quick verification stays below this share of the tolerance
 #: (a sampled maximum can miss the true one; the margin keeps the final check honest)
 ACCEPT = 0.98
+#: goal "smallest" takes the fastest candidate among those storing at most this share more
+#: than the fewest bytes found
+NEAR_SMALLEST = 0.10
 #: most segments any table may have
 S_MAX = 4096
 #: refits per candidate before it is given up
@@ -250,6 +253,7 @@ def build_table(ts, progress=None):
     candidates = []
     n = ts.verify_points
     best = None          # (key, index, pw, full verification): passed everything
+    met = []             # (key, index, pw) of every candidate that met the quick check
     first_ok = None      # the best within tolerance, should none be free of order reversals
     for layout in layouts:
         previous = None
@@ -260,7 +264,8 @@ def build_table(ts, progress=None):
             # than the best one so far (its coefficients alone need nseg * (d + 1) values)
             cap = S_MAX
             if ts.goal == "smallest" and best is not None:
-                cap = max(1, min(S_MAX, best[2].storage_bytes // (np.dtype(ft).itemsize * (d + 1))))
+                room = int(best[2].storage_bytes * (1 + NEAR_SMALLEST))
+                cap = max(1, min(S_MAX, room // (np.dtype(ft).itemsize * (d + 1))))
             pw, v, attempts, why = _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt,
                                                   monotone, coord, breaks, ts, cap)
             row = {"layout": layout, "degree": d, "met": pw is not None}
@@ -274,6 +279,7 @@ def build_table(ts, progress=None):
                         "quick_max_error": v["max_error"], "refits": attempts})
             key = ((pw.storage_bytes, estimated_ops(pw)) if ts.goal == "smallest"
                    else (estimated_ops(pw), pw.storage_bytes))
+            met.append((key, idx, pw))
             if best is None or key < best[0]:
                 # a new leader must pass the full verification (tolerance, and order where
                 # the property is monotone) before it counts
@@ -313,6 +319,21 @@ def build_table(ts, progress=None):
                 first_ok = (key, idx, cf, vf)
         elif best is None or key < best[0]:
             best = (key, idx, cf, vf)
+    if best is not None and ts.goal == "smallest":
+        # among candidates that store at most NEAR_SMALLEST more, the one with the fewest
+        # operations, if it passes the full verification too
+        limit = best[2].storage_bytes * (1 + NEAR_SMALLEST)
+        near = sorted((m for m in met if m[2].storage_bytes <= limit
+                       and estimated_ops(m[2]) < estimated_ops(best[2])),
+                      key=lambda m: (estimated_ops(m[2]), m[2].storage_bytes, m[1]))
+        for key, idx, pw in near:
+            vf = verify_table(pw, f, scale, n, _seed(ts, "final"), monotone, breaks)
+            if vf["max_error"] <= tol and vf.get("monotone_reversals", 0) == 0:
+                best = (key, idx, pw, vf)
+                break
+            candidates[idx]["full_verification"] = (
+                "over tolerance" if vf["max_error"] > tol
+                else f"{vf['monotone_reversals']} order reversals")
     if best is None:
         if first_ok is None:
             raise BuildError(
