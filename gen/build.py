@@ -71,10 +71,29 @@ def core_function(ts):
 
 
 def error_scale(kind):
-    """Denominator of the error: 1 for an absolute tolerance, |f| for a relative one."""
+    """Denominator of the error: 1 for an absolute tolerance, |f| for a relative one.
+    The function carries ``relative`` so that fitters can tell the two apart."""
     if kind == "abs":
-        return lambda fy: np.ones_like(np.asarray(fy, dtype=np.float64))
-    return lambda fy: np.abs(np.asarray(fy, dtype=np.float64))
+        def scale(fy):
+            return np.ones_like(np.asarray(fy, dtype=np.float64))
+    else:
+        def scale(fy):
+            return np.abs(np.asarray(fy, dtype=np.float64))
+    scale.relative = kind != "abs"
+    return scale
+
+
+def _curvature(fx, kind):
+    """+1 where f is concave over the whole range (a chord lies below it), -1 convex, else 0;
+    for a relative tolerance only where f > 0 throughout."""
+    if kind == "rel" and not np.all(fx > 0):
+        return 0
+    d2 = np.diff(fx, 2)
+    if np.all(d2 < 0):
+        return 1
+    if np.all(d2 > 0):
+        return -1
+    return 0
 
 
 def estimated_ops(pw):
@@ -138,7 +157,7 @@ def _monotone(fx):
 
 
 def _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt, monotone, coord, breaks, ts,
-                   max_segments=S_MAX):
+                   max_segments=S_MAX, balance=0):
     """Fit one candidate, tightening the budget until the quick verification meets ``tol``.
 
     Returns (Piecewise1D or None, quick verification, refits, reason when None)."""
@@ -146,7 +165,7 @@ def _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt, monotone, coord
     v = None
     for attempt in range(MAX_REFITS):
         pw = _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, ts.policy,
-                    max_segments)
+                    max_segments, balance)
         if pw is None:
             why = ("stopped: would store more than the best candidate"
                    if max_segments < S_MAX else "tolerance not met within the segment limit")
@@ -167,14 +186,14 @@ def _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt, monotone, coord
 
 
 def _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, policy,
-           max_segments=None):
+           max_segments=None, balance=0):
     max_segments = max_segments or S_MAX
     if layout == "free" and breaks:
         edges = [lo] + list(breaks) + [hi]
         xs, iws, cs = [], [], []
         for a, b in zip(edges[:-1], edges[1:]):
             r = S.place_free(f, scale, a, b, d, budget, fmt, monotone, coord,
-                             max_segments=max_segments)
+                             max_segments=max_segments, balance=balance)
             if r is None:
                 return None
             x, iw, c = r
@@ -184,7 +203,8 @@ def _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, po
         r = (np.concatenate(xs), np.concatenate(iws), np.concatenate(cs))
         pw = S.build_piecewise("free", r, lo, hi, fmt, policy)
         return pw
-    pw = S.place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, max_segments)
+    pw = S.place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, max_segments,
+                 balance)
     if pw is None:
         return None
     return Piecewise1D(pw.layout, pw.fmt, pw.lo, pw.hi, pw.coef, policy, pw.x, pw.inv_w,
@@ -209,6 +229,7 @@ def build_table(ts, progress=None):
     if not np.all(np.isfinite(fx)):
         raise BuildError(f"table {ts.name!r}: the core gives no value over part of the range")
     monotone = _monotone(fx)
+    balance = _curvature(fx, ts.tol_kind)
     floor = _floor(f, scale, lo, hi, fmt)
     unit = ts.output_unit if ts.tol_kind == "abs" else "(relative)"
     if tol < 3.0 * floor:
@@ -267,7 +288,7 @@ def build_table(ts, progress=None):
                 room = int(best[2].storage_bytes * (1 + NEAR_SMALLEST))
                 cap = max(1, min(S_MAX, room // (np.dtype(ft).itemsize * (d + 1))))
             pw, v, attempts, why = _fit_candidate(layout, d, f, scale, lo, hi, tol, floor, fmt,
-                                                  monotone, coord, breaks, ts, cap)
+                                                  monotone, coord, breaks, ts, cap, balance)
             row = {"layout": layout, "degree": d, "met": pw is not None}
             idx = len(candidates)
             candidates.append(row)

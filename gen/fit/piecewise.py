@@ -48,7 +48,8 @@ class Piecewise1D:
             bad = np.nonzero(np.diff(x) <= 0)[0]
             if bad.size:
                 j = int(bad[0]) + 1
-                raise ValueError(f"breakpoints must increase: x[{j}]={x[j]!r} <= x[{j-1}]={x[j-1]!r}")
+                raise ValueError(f"breakpoints must increase: x[{j}]={float(x[j])!r} <= "
+                                 f"x[{j-1}]={float(x[j-1])!r}")
             if x.shape[0] != self.coef.shape[0] + 1:
                 raise ValueError("free layout needs nseg+1 breakpoints")
 

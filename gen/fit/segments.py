@@ -161,8 +161,14 @@ def _check(f, xmap, coef, ta, tb, scale, budget, monotone, fy=None):
     return emax, ok
 
 
-def _fit_and_check(f, xmap, ta, tb, d, scale, budget, monotone):
-    """Fit and check many segments with a single evaluation of ``f``."""
+def _fit_and_check(f, xmap, ta, tb, d, scale, budget, monotone, balance=0):
+    """Fit and check many segments with a single evaluation of ``f``.
+
+    ``balance`` (+1/-1, degree 1 only): f is concave/convex over the range, so a chord lies
+    wholly below/above it; every segment is then moved by 0.9 of the budget towards f (added
+    for an absolute budget, as a factor for a relative one). The shift is the same at both ends of
+    every segment, so the table stays continuous and monotone, and the error band is centred.
+    """
     s = lobatto_nodes(d)[None, :]
     tn = ta[:, None] + (tb - ta)[:, None] * s
     tn[:, -1] = tb
@@ -170,11 +176,25 @@ def _fit_and_check(f, xmap, ta, tb, d, scale, budget, monotone):
     both = f(xmap(np.concatenate([tn, tt], axis=1)))
     yn, fy = both[:, :d + 1], both[:, d + 1:]
     coef, _, _ = fit_interval(f, xmap, ta, tb, d, fx=yn)
+    if balance and d == 1:
+        # 0.9: the ends sit at 0.9 of the budget, leaving room for the format's rounding
+        coef = shift_chords(coef, 0.9 * balance * budget,
+                            relative=getattr(scale, "relative", False))
     emax, ok = _check(f, xmap, coef, ta, tb, scale, budget, monotone, fy=fy)
     return coef, emax, ok
 
 
-def _free_probe(f, scale, fmt, a, ends, d, budget, monotone):
+def shift_chords(coef, c, relative):
+    """Move highest-first coefficients by ``c``: added to the constant, or a factor 1 + c."""
+    out = coef.copy()
+    if relative:
+        out *= 1.0 + c
+    else:
+        out[:, -1] += c
+    return out
+
+
+def _free_probe(f, scale, fmt, a, ends, d, budget, monotone, balance=0):
     """Fit [a, end] for each candidate end; return accept flags and fits."""
     ft = arith.FORMATS[fmt]
     ends = ends.astype(ft).astype(np.float64)
@@ -187,12 +207,12 @@ def _free_probe(f, scale, fmt, a, ends, d, budget, monotone):
         return _a[:, None] + t / _iw[:, None]
 
     ta = np.zeros_like(tend)
-    coef, emax, ok = _fit_and_check(f, xmap, ta, tend, d, scale, budget, monotone)
+    coef, emax, ok = _fit_and_check(f, xmap, ta, tend, d, scale, budget, monotone, balance)
     return ends, ok, coef, inv_w
 
 
 def place_free(f, scale, lo, hi, d, budget, fmt, monotone=0, coord="linear", probes=24,
-               rounds=3, max_segments=4096):
+               rounds=3, max_segments=4096, balance=0):
     """Greedy: from ``lo``, take the longest segment meeting the budget, repeat to ``hi``.
 
     Candidate ends are spaced in ``coord`` ("linear" or "log" of the input) and refined in
@@ -216,7 +236,7 @@ def place_free(f, scale, lo, hi, d, budget, fmt, monotone=0, coord="linear", pro
         lens = span * np.geomspace(1e-5, 1.0, probes)
         ends = inv(sa + lens)
         ends[-1] = hi
-        e, ok, coef, iw = _free_probe(f, scale, fmt, a, ends, d, budget, monotone)
+        e, ok, coef, iw = _free_probe(f, scale, fmt, a, ends, d, budget, monotone, balance)
         if ok[-1] and ok.all():
             xs.append(float(ft(hi)))
             iws.append(iw[-1])
@@ -231,7 +251,7 @@ def place_free(f, scale, lo, hi, d, budget, fmt, monotone=0, coord="linear", pro
         for _ in range(rounds - 1):
             lens = np.linspace(lo_len, hi_len, probes + 2)[1:-1]
             e2, ok2, coef2, iw2 = _free_probe(f, scale, fmt, a, inv(sa + lens), d, budget,
-                                              monotone)
+                                              monotone, balance)
             if not ok2[0]:
                 hi_len = lens[0]
                 continue
@@ -252,12 +272,12 @@ def place_free(f, scale, lo, hi, d, budget, fmt, monotone=0, coord="linear", pro
     return np.array(xs), np.array(iws), np.array(cs)
 
 
-def _fit_all(f, scale, d, budget, monotone, starts, widths, ta, tb):
+def _fit_all(f, scale, d, budget, monotone, starts, widths, ta, tb, balance=0):
     """Fit fixed segments [starts + ta*widths, starts + tb*widths]; all at once."""
     def xmap(t):
         return starts[:, None] + t * widths[:, None]
 
-    return _fit_and_check(f, xmap, ta, tb, d, scale, budget, monotone)
+    return _fit_and_check(f, xmap, ta, tb, d, scale, budget, monotone, balance)
 
 
 def uniform_segments(lo, hi, n, fmt):
@@ -274,11 +294,12 @@ def uniform_segments(lo, hi, n, fmt):
     return x0, inv_h, starts, widths, ta, tb
 
 
-def place_uniform(f, scale, lo, hi, d, budget, fmt, monotone=0, max_segments=4096):
+def place_uniform(f, scale, lo, hi, d, budget, fmt, monotone=0, max_segments=4096, balance=0):
     """Fewest equal-width segments meeting the budget (bisection on the count)."""
     def trial(n):
         x0, inv_h, starts, widths, ta, tb = uniform_segments(lo, hi, n, fmt)
-        coef, emax, ok = _fit_all(f, scale, d, budget, monotone, starts, widths, ta, tb)
+        coef, emax, ok = _fit_all(f, scale, d, budget, monotone, starts, widths, ta, tb,
+                                  balance)
         return ok.all(), (x0, inv_h, coef)
 
     n_hi = 1
@@ -319,7 +340,8 @@ def binade_segments(lo, hi, k, fmt):
     return key0, n, starts, widths, ta, tb
 
 
-def place_binade(f, scale, lo, hi, d, budget, fmt, monotone=0, kmax=12, max_segments=4096):
+def place_binade(f, scale, lo, hi, d, budget, fmt, monotone=0, kmax=12, max_segments=4096,
+                 balance=0):
     """Smallest k (segments per octave = 2**k) meeting the budget; positive inputs only."""
     if lo <= 0:
         return None
@@ -327,7 +349,8 @@ def place_binade(f, scale, lo, hi, d, budget, fmt, monotone=0, kmax=12, max_segm
         key0, n, starts, widths, ta, tb = binade_segments(lo, hi, k, fmt)
         if n > max_segments:
             return None
-        coef, emax, ok = _fit_all(f, scale, d, budget, monotone, starts, widths, ta, tb)
+        coef, emax, ok = _fit_all(f, scale, d, budget, monotone, starts, widths, ta, tb,
+                                  balance)
         if ok.all():
             return k, key0, coef
     return None
@@ -354,16 +377,18 @@ def build_piecewise(layout, result, lo, hi, fmt, policy):
 
 
 def place(layout, f, scale, lo, hi, d, budget, fmt, monotone=0, coord="linear",
-          max_segments=4096):
+          max_segments=4096, balance=0):
     """Dispatch to the placement of ``layout``; returns a Piecewise1D or None (also when more
     than ``max_segments`` would be needed)."""
     if layout == "free":
         r = place_free(f, scale, lo, hi, d, budget, fmt, monotone, coord,
-                       max_segments=max_segments)
+                       max_segments=max_segments, balance=balance)
     elif layout == "uniform":
-        r = place_uniform(f, scale, lo, hi, d, budget, fmt, monotone, max_segments=max_segments)
+        r = place_uniform(f, scale, lo, hi, d, budget, fmt, monotone, max_segments=max_segments,
+                          balance=balance)
     else:
-        r = place_binade(f, scale, lo, hi, d, budget, fmt, monotone, max_segments=max_segments)
+        r = place_binade(f, scale, lo, hi, d, budget, fmt, monotone, max_segments=max_segments,
+                         balance=balance)
     if r is None:
         return None
     return build_piecewise(layout, r, lo, hi, fmt, "clamp")
