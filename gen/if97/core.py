@@ -29,7 +29,7 @@ surface_tension = transport.surface_tension
 
 #: relative tolerance within which a (p, h) or (p, s) on a region 1|3 or 2|3 boundary value is
 #: taken as the region 1 or 2 state
-BOUNDARY_SLACK = 1e-12
+BOUNDARY_SLACK = 1e-11
 
 #: saturation pressure at 623.15 K, Pa (where the region-3 part of the saturation line starts)
 P_13 = float(region4.saturation_pressure(T_13))
@@ -124,7 +124,7 @@ def _backward(p, y, key, mask):
     Ts = np.where(ok & (pf <= 22.064e6), region4.saturation_temperature(np.clip(pf, 611.212677, 22.064e6)), np.nan)
     y_min = region1.props(np.where(ok, pf, 1e5), np.full(pf.shape, 273.15))[key]
     y_max = region2.props(np.where(ok, pf, 1e5), np.full(pf.shape, T_MAX_25))[key]
-    ok &= (yf >= y_min) & (yf <= y_max)
+    ok &= (yf >= y_min - BOUNDARY_SLACK * np.abs(y_min)) & (yf <= y_max * (1 + BOUNDARY_SLACK))
     below13 = ok & (pf <= P_13)
     # below 16.53 MPa: 1 | two-phase | 2 split by the saturated states
     if below13.any():
@@ -152,7 +152,8 @@ def _backward(p, y, key, mask):
         # ties within round-off of a boundary value go to region 1 or 2, whose equations
         # define the boundary state (IF97 is not exactly continuous there: region 3 would
         # give a T a few mK off, outside region 3). The slack covers the round-off of h or s
-        # (~1e-14 relative, cancelling near 623.15 K) and of inverting B23 (~1e-10 K)
+        # (~1e-14 relative, cancelling near 623.15 K) and of inverting B23 (up to ~2e-10 K at its
+        # low-pressure end, ~1e-12 relative in h)
         r1 = yf[sub] <= y13 + BOUNDARY_SLACK * np.abs(y13)
         r2 = ~r1 & (yf[sub] >= y23 - BOUNDARY_SLACK * np.abs(y23))
         r3 = ~r1 & ~r2
