@@ -714,3 +714,789 @@ def estimated_ops(g):
     n += 4 + 6 if g.method == "bilinear" else 16 + 31
     n += 1 if g.transform else 0
     return int(n)
+
+
+# ---------------------------------------------------------------------------------------------
+# the fitting problem: a domain with its tolerance, format and helper
+
+
+@dataclass
+class PointSet:
+    """Points in the domain with everything an error measurement needs.
+
+    ``p``, ``v``: exact inputs (float64, user units); ``x``, ``y``: the run-time coordinates
+    the emulated code computes from them (format); ``gx``, ``gy``: their exact grid
+    coordinates; ``truth``: the core; ``sc``: the error scale (1 or |truth|)."""
+    p: np.ndarray
+    v: np.ndarray
+    x: np.ndarray
+    y: np.ndarray
+    gx: np.ndarray
+    gy: np.ndarray
+    truth: np.ndarray
+    sc: np.ndarray
+
+    def take(self, m):
+        return PointSet(*(getattr(self, k)[m] for k in
+                          ("p", "v", "x", "y", "gx", "gy", "truth", "sc")))
+
+    def join(self, other):
+        return PointSet(*(np.concatenate([getattr(self, k), getattr(other, k)]) for k in
+                          ("p", "v", "x", "y", "gx", "gy", "truth", "sc")))
+
+    @property
+    def size(self):
+        return int(self.p.size)
+
+
+def _seed(*parts):
+    h = hashlib.sha256("|".join(str(p) for p in parts).encode()).digest()
+    return int.from_bytes(h[:8], "little")
+
+
+class Problem:
+    """What every candidate of one table shares: domain, tolerance, format, policy, helper,
+    the exact coordinate maps, a reference sampling and the check points (cached)."""
+
+    def __init__(self, dom, tol_kind, tol, fmt="float32", policy="clamp", helper=None):
+        self.dom, self.tol_kind, self.tol = dom, tol_kind, float(tol)
+        self.fmt, self.policy = fmt, policy
+        ft = self.ft = arith.FORMATS[fmt]
+        lo, hi = float(ft(dom.p_lo)), float(ft(dom.p_hi))
+        if lo < dom.p_lo:
+            lo = float(np.nextafter(ft(lo), ft(np.inf)))
+        if hi > dom.p_hi:
+            hi = float(np.nextafter(ft(hi), ft(-np.inf)))
+        self.p_lo, self.p_hi = lo, hi
+        self.helper = helper
+        self.helper_pw = helper.piecewise if helper is not None else None
+        self.sat_rt = sat_runtime(self.helper_pw) if helper is not None else None
+        self.side = dom.side
+        self.key = repr((dom, tol_kind, tol, fmt, policy))
+        self._cache = {}
+
+    # maps ------------------------------------------------------------------------------------
+    def f(self, p, v):
+        return self.dom.core(p, v)
+
+    def scale(self, fy):
+        fy = np.asarray(fy, dtype=np.float64)
+        return np.abs(fy) if self.tol_kind == "rel" else np.ones_like(fy)
+
+    def coords(self):
+        d = self.dom
+        if d.side == 0 or not (d.near_rel or d.far_rel):
+            return ["raw"]
+        if d.near_rel and d.far_rel:
+            return ["offset"]
+        return ["normalized", "offset"]
+
+    def _pdense(self):
+        return np.linspace(self.dom.p_lo, self.dom.p_hi, 1025)
+
+    def y_range(self, coord):
+        """(lo, hi) of the second coordinate, format values (outward where a limit varies)."""
+        if ("yr", coord) in self._cache:
+            return self._cache[("yr", coord)]
+        d, ft = self.dom, self.ft
+        up = lambda a: float(np.nextafter(ft(a), ft(np.inf))) if float(ft(a)) < a else float(ft(a))  # noqa: E731
+        dn = lambda a: float(np.nextafter(ft(a), ft(-np.inf))) if float(ft(a)) > a else float(ft(a))  # noqa: E731
+        if coord == "normalized":
+            r = (0.0, 1.0)
+        elif coord == "raw":
+            lo, hi = sorted((float(d.near), float(d.far)))
+            r = (up(lo), dn(hi))
+        else:
+            pd = self._pdense()
+            near, far = d.limits(pd)
+            S = d.sat(pd)
+            dn_near = d.side * (near - S)
+            dn_far = d.side * (far - S)
+            lo = float(d.near) if d.near_rel else float(np.min(dn_near))
+            hi = float(d.far) if d.far_rel else float(np.max(dn_far))
+            r = (float(ft(lo)) if d.near_rel else dn(lo), float(ft(hi)) if d.far_rel else up(hi))
+        self._cache[("yr", coord)] = r
+        return r
+
+    def v_of(self, coord, p, y):
+        """Exact second input at grid coordinates (p, y)."""
+        d = self.dom
+        if coord == "raw":
+            return np.asarray(y, dtype=np.float64) + 0.0 * p
+        if coord == "offset":
+            return d.sat(p) + d.side * np.asarray(y, dtype=np.float64)
+        near, far = d.limits(p)
+        return near + np.asarray(y, dtype=np.float64) * (far - near)
+
+    def y_of(self, coord, p, v):
+        """Exact grid coordinate y of the input (p, v)."""
+        d = self.dom
+        if coord == "raw":
+            return np.asarray(v, dtype=np.float64) + 0.0 * p
+        if coord == "offset":
+            return d.side * (np.asarray(v, dtype=np.float64) - d.sat(p))
+        near, far = d.limits(p)
+        return (np.asarray(v, dtype=np.float64) - near) / (far - near)
+
+    def reachable(self, coord, p, y):
+        """Whether grid coordinates (p, y) belong to the domain (all, but in ``offset``
+        coordinates with an absolute limit)."""
+        d = self.dom
+        if coord != "offset" or (d.near_rel and d.far_rel):
+            return np.ones(np.shape(p), dtype=bool)
+        near, far = d.limits(p)
+        S = d.sat(p)
+        a, b = d.side * (near - S), d.side * (far - S)
+        slack = 1e-9 * (np.abs(a) + np.abs(b) + 1.0)
+        return (y >= a - slack) & (y <= b + slack)
+
+    def base_tab(self, coord):
+        ft = self.ft
+        y_lo, y_hi = self.y_range(coord)
+        return {"fmt": self.fmt, "method": None, "policy": self.policy, "side": self.side,
+                "coord": coord, "transform": None, "near": ft(self.dom.near),
+                "far": ft(self.dom.far), "near_rel": self.dom.near_rel,
+                "far_rel": self.dom.far_rel, "p_lo": ft(self.p_lo), "p_hi": ft(self.p_hi),
+                "y_lo": ft(y_lo), "y_hi": ft(y_hi), "sat": self.sat_rt}
+
+    # point sets ------------------------------------------------------------------------------
+    def pointset(self, coord, p, v, truth=None):
+        p = np.asarray(p, dtype=np.float64).ravel()
+        v = np.asarray(v, dtype=np.float64).ravel()
+        if truth is None:
+            truth = self.f(p, v)
+        ok = np.isfinite(truth)
+        p, v, truth = p[ok], v[ok], truth[ok]
+        with np.errstate(invalid="ignore", over="ignore"):
+            x, _, y = arith2d.coordinates2d(p, v, self.base_tab(coord))
+        return PointSet(p, v, x, y, p.copy(), self.y_of(coord, p, v), truth, self.scale(truth))
+
+    def random_inputs(self, n, seed):
+        """``n`` seeded points (p, v) of the domain: half uniform in p, half log-uniform where
+        the range allows; the second input uniform between its limits at each p."""
+        d = self.dom
+        rng = np.random.default_rng(seed)
+        if self.p_lo > 0 and self.p_hi / self.p_lo > 1.5 and d.p_offset == 0.0:
+            m = n // 2
+            p = np.concatenate([rng.uniform(self.p_lo, self.p_hi, m),
+                                np.exp(rng.uniform(np.log(self.p_lo), np.log(self.p_hi),
+                                                   n - m))])
+        else:
+            p = rng.uniform(self.p_lo, self.p_hi, n)
+        p = np.clip(p, self.p_lo, self.p_hi)
+        s = rng.uniform(0.0, 1.0, n)
+        near, far = d.limits(p)
+        return p, near + s * (far - near)
+
+    def edge_inputs(self, m):
+        """Points along the four edges of the domain, corners included."""
+        d = self.dom
+        s = np.linspace(0.0, 1.0, m)
+        ps = np.concatenate([np.linspace(self.p_lo, self.p_hi, m),
+                             np.geomspace(self.p_lo, self.p_hi, m) if self.p_lo > 0
+                             else np.linspace(self.p_lo, self.p_hi, m)])
+        near, far = d.limits(ps)
+        pe = np.array([self.p_lo, self.p_hi])
+        ne, fe = d.limits(pe)
+        P = [ps, ps, np.repeat(pe, m)]
+        V = [near, far, (ne[:, None] + s[None, :] * (fe - ne)[:, None]).ravel()]
+        return np.concatenate(P), np.concatenate(V)
+
+    def check_set(self, coord):
+        """The fixed check points of this problem's fits (never verification points)."""
+        k = ("check", coord)
+        if k not in self._cache:
+            base = ("check_inputs",)
+            if base not in self._cache:
+                p, v = self.random_inputs(CHECK_POINTS, _seed(self.key, "check"))
+                pe, ve = self.edge_inputs(129)
+                p, v = np.concatenate([p, pe]), np.concatenate([v, ve])
+                self._cache[base] = (p, v, self.f(p, v))
+            p, v, t = self._cache[base]
+            self._cache[k] = self.pointset(coord, p, v, t)
+        return self._cache[k]
+
+    def centers(self, coord, xs, ys, xr=None, yr=None):
+        """Cell centres of the grid on lines (xs, ys), inside the domain, as a point set;
+        ``xr`` = (a, b) keeps only cells with x between a and b, ``yr`` likewise in y."""
+        xc = 0.5 * (xs[1:] + xs[:-1])
+        if xr is not None:
+            xc = xc[(xc >= xr[0]) & (xc <= xr[1])]
+        yc = 0.5 * (ys[1:] + ys[:-1])
+        if yr is not None:
+            yc = yc[(yc >= yr[0]) & (yc <= yr[1])]
+        P = np.repeat(xc, yc.size)
+        Y = np.tile(yc, xc.size)
+        keep = self.reachable(coord, P, Y)
+        P, Y = P[keep], Y[keep]
+        return self.pointset(coord, P, self.v_of(coord, P, Y))
+
+    def nodes(self, coord, xs, ys):
+        """Core values (float64) at the grid nodes, shape (len(xs), len(ys))."""
+        P = np.repeat(xs, ys.size)
+        Y = np.tile(ys, xs.size)
+        return self.f(P, self.v_of(coord, P, Y)).reshape(xs.size, ys.size)
+
+    # reference sampling ----------------------------------------------------------------------
+    def reference(self, coord, n=97):
+        """(xr, yr, F): the core on an n x n grid of coordinates (log-spaced in p where the
+        range spans over 4x), NaN where the grid is outside the domain."""
+        k = ("ref", coord, n)
+        if k not in self._cache:
+            d = self.dom
+            if self.p_lo > 0 and self.p_hi / self.p_lo > 4.0 and d.p_offset == 0.0:
+                xr = np.geomspace(self.p_lo, self.p_hi, n)
+            else:
+                xr = np.linspace(self.p_lo, self.p_hi, n)
+            xr[0], xr[-1] = self.p_lo, self.p_hi
+            y_lo, y_hi = self.y_range(coord)
+            yr = np.linspace(y_lo, y_hi, n)
+            P = np.repeat(xr, n)
+            Y = np.tile(yr, n)
+            F = self.f(P, self.v_of(coord, P, Y))
+            F = np.where(self.reachable(coord, P, Y), F, np.nan).reshape(n, n)
+            self._cache[k] = (xr, yr, F)
+        return self._cache[k]
+
+    def curvature(self, coord, k):
+        """|k-th derivative| / scale along x and along y on the reference grid: two arrays
+        (n_x, n_y), NaN where undefined (k = 2 or 4; divided differences)."""
+        key = ("curv", coord, k)
+        if key not in self._cache:
+            xr, yr, F = self.reference(coord)
+            sc = self.scale(F)
+            gx = np.full(F.shape, np.nan)
+            gy = np.full(F.shape, np.nan)
+            h = k // 2
+            dx = _derivative(F, xr, k, axis=0)
+            dy = _derivative(F, yr, k, axis=1)
+            with np.errstate(invalid="ignore", divide="ignore"):
+                gx[h:-h, :] = np.abs(dx) / sc[h:-h, :]
+                gy[:, h:-h] = np.abs(dy) / sc[:, h:-h]
+            self._cache[key] = (gx, gy)
+        return self._cache[key]
+
+    def slope_v(self):
+        """Largest |df/dv| / scale over the domain (reference sampling): the factor by which
+        an error of the saturation helper reaches the output."""
+        if "slope_v" not in self._cache:
+            P, V = domain_grid(self.dom, 65, 65)
+            near, far = self.dom.limits(P)
+            dv = 1e-4 * np.abs(far - near)
+            f1, f0 = self.f(P, V + dv), self.f(P, V - dv)
+            g = np.abs(f1 - f0) / (2 * dv) / self.scale(0.5 * (f0 + f1))
+            self._cache["slope_v"] = float(np.nanmax(g))
+        return self._cache["slope_v"]
+
+    def floor(self):
+        """Error (tolerance units) from rounding the inputs, the helper's value and the output
+        to the format alone, the largest over a reference sampling of the domain."""
+        if "floor" not in self._cache:
+            ft = self.ft
+            P, V = domain_grid(self.dom, 65, 65)
+            F = self.f(P, V)
+            dp = 1e-6 * np.abs(P) + 1e-12
+            near, far = self.dom.limits(P)
+            dv = 1e-4 * np.abs(far - near)
+            fp = np.abs(self.f(P + dp, V) - self.f(P - dp, V)) / (2 * dp)
+            fv = np.abs(self.f(P, V + dv) - self.f(P, V - dv)) / (2 * dv)
+            ulp = lambda a: np.spacing(np.abs(np.asarray(a)).astype(ft)).astype(np.float64)  # noqa: E731
+            e = 0.5 * ulp(F) + 0.5 * fp * ulp(P) + 0.5 * fv * ulp(V)
+            if self.side:
+                e = e + 0.5 * fv * ulp(self.dom.sat(P))
+            self._cache["floor"] = float(np.nanmax(e / self.scale(F)))
+        return self._cache["floor"]
+
+
+def _derivative(F, x, k, axis):
+    """k-th derivative estimate k! f[x_i..x_i+k] along ``axis`` (divided differences)."""
+    G = np.moveaxis(F, axis, 0)
+    d = G.copy()
+    for level in range(1, k + 1):
+        span = (x[level:] - x[:-level])
+        d = (d[1:] - d[:-1]) / span[:, None]
+    d = d * math.factorial(k)
+    return np.moveaxis(d, 0, axis)
+
+
+# ---------------------------------------------------------------------------------------------
+# fitting one candidate
+
+#: per method: order of the error in the cell width, its constant, fewest lines per axis
+_ORDER = {"bilinear": (2, 1.0 / 8.0, 2), "bicubic": (4, 1.0 / 24.0, 4)}
+#: refinement rounds of a free grid before it is given up
+MAX_ROUNDS = 40
+
+
+def _axis(layout, lines_or_n, lo, hi, method, fmt):
+    if layout == "free":
+        return free_axis(lines_or_n, method, fmt)
+    return uniform_axis(lo, hi, int(lines_or_n), fmt)
+
+
+def _tab(prob, coord, method, xax, yax, Z):
+    tab = prob.base_tab(coord)
+    tab.update({"method": method, "x": xax.runtime(prob.fmt), "y": yax.runtime(prob.fmt),
+                "z": arith.to_format(Z, prob.fmt)})
+    return tab
+
+
+def _errors(tab, pts):
+    """|emulated grid - core| / scale at the point set's run-time coordinates."""
+    if pts.size == 0:
+        return np.zeros(0)
+    with np.errstate(invalid="ignore", over="ignore"):
+        y = arith2d.interpolate2d(pts.x, pts.y, tab)
+    e = np.abs(y.astype(np.float64) - pts.truth) / pts.sc
+    return np.where(np.isfinite(e), e, np.inf)
+
+
+def _format_lines(lines, fmt):
+    return np.unique(arith.to_format(np.asarray(lines, dtype=np.float64), fmt).astype(np.float64))
+
+
+def _equidistribute(pos, g, k, c, e, lo, hi, fmt, nmin):
+    """Free lines on [lo, hi] with c * g * h^k about e in every interval, g sampled at pos."""
+    g = np.nan_to_num(np.asarray(g, dtype=np.float64), nan=0.0, posinf=0.0)
+    dens = (c * g / e) ** (1.0 / k)
+    dens = np.maximum(dens, np.maximum(np.r_[dens[1:], 0.0], np.r_[0.0, dens[:-1]]))
+    cum = np.concatenate([[0.0], np.cumsum(0.5 * (dens[1:] + dens[:-1]) * np.diff(pos))])
+    n = max(nmin - 1, int(math.ceil(cum[-1])))
+    if cum[-1] <= 0:
+        lines = np.linspace(lo, hi, nmin)
+    else:
+        lines = np.interp(np.linspace(0.0, cum[-1], n + 1), cum, pos)
+    lines[0], lines[-1] = lo, hi
+    return _format_lines(lines, fmt)
+
+
+def _profile(g, axis):
+    with np.errstate(invalid="ignore"):
+        m = np.where(np.isnan(g), -np.inf, g).max(axis=1 - axis)
+    return np.where(np.isfinite(m), m, 0.0)
+
+
+def _interp1(nodes_pos, nodes_val, x, method):
+    """Float64 one-dimensional interpolation along a stencil (rows), for direction tests."""
+    if method == "bilinear":
+        t = (x - nodes_pos[:, 0]) / (nodes_pos[:, 1] - nodes_pos[:, 0])
+        return nodes_val[:, 0] * (1 - t) + nodes_val[:, 1] * t
+    out = np.zeros(x.shape)
+    for kk in range(4):
+        w = np.ones(x.shape)
+        for m in range(4):
+            if m != kk:
+                w = w * (x - nodes_pos[:, m]) / (nodes_pos[:, kk] - nodes_pos[:, m])
+        out = out + w * nodes_val[:, kk]
+    return out
+
+
+def _stencil(lines, c, method):
+    """Cell of each coordinate and the node indices of its stencil (rows)."""
+    n = lines.size
+    i = np.clip(np.searchsorted(lines, c, side="right") - 1, 0, n - 2)
+    if method == "bilinear":
+        return i, np.stack([i, i + 1], axis=1)
+    s = np.clip(i - 1, 0, n - 4)
+    return i, np.stack([s, s + 1, s + 2, s + 3], axis=1)
+
+
+def _directions(prob, coord, method, xs, ys, pts):
+    """For the worst point of each failing cell: the 1-D interpolation errors along x and y
+    (float64, the core at the stencil nodes through that point); returns cells and both."""
+    ix, sx = _stencil(xs, pts.gx, method)
+    iy, sy = _stencil(ys, pts.gy, method)
+    e = pts.err
+    cell = ix * ys.size + iy
+    order = np.lexsort((-e, cell))
+    first = np.r_[True, cell[order][1:] != cell[order][:-1]]
+    w = order[first]
+    px, py = pts.gx[w], pts.gy[w]
+    kx, ky = sx[w], sy[w]
+    m = kx.shape[1]
+    Px = xs[kx]
+    Vx = prob.v_of(coord, Px.ravel(), np.repeat(py, m)).reshape(Px.shape)
+    Fx = prob.f(Px.ravel(), Vx.ravel()).reshape(Px.shape)
+    Yy = ys[ky]
+    Py = np.repeat(px, m).reshape(Yy.shape)
+    Fy = prob.f(Py.ravel(), prob.v_of(coord, Py.ravel(), Yy.ravel())).reshape(Yy.shape)
+    truth = pts.truth[w]
+    sc = pts.sc[w]
+    ex = np.abs(_interp1(Px, Fx, px, method) - truth) / sc
+    ey = np.abs(_interp1(Yy, Fy, py, method) - truth) / sc
+    return ix[w], iy[w], np.nan_to_num(ex, nan=np.inf), np.nan_to_num(ey, nan=np.inf)
+
+
+def _split(lines, cells, fmt):
+    """Lines with the midpoints of the given intervals added (format values)."""
+    cells = np.unique(cells)
+    mids = arith.to_format(0.5 * (lines[cells] + lines[cells + 1]), fmt).astype(np.float64)
+    ok = (mids > lines[cells]) & (mids < lines[cells + 1])
+    return np.unique(np.concatenate([lines, mids[ok]])), int(np.sum(ok))
+
+
+def _check(prob, coord, method, xax, yax, Z, pts, xr=None, yr=None):
+    """Errors on the check points (restricted to the window xr x yr) and the cell centres."""
+    tab = _tab(prob, coord, method, xax, yax, Z)
+    sub = pts
+    if xr is not None or yr is not None:
+        m = np.ones(pts.size, dtype=bool)
+        if xr is not None:
+            m &= (pts.gx >= xr[0]) & (pts.gx <= xr[1])
+        if yr is not None:
+            m &= (pts.gy >= yr[0]) & (pts.gy <= yr[1])
+        sub = pts.take(m)
+    cen = prob.centers(coord, xax.lines, yax.lines, xr, yr)
+    both = sub.join(cen)
+    both.err = _errors(tab, both)
+    return both
+
+
+def _fit_free(prob, coord, method, target):
+    """Free lines on both axes: equidistributed start, insertion where the check error is
+    largest, then removal of every line the check allows. Returns (xs, ys, Z) or a reason."""
+    k, c, nmin = _ORDER[method]
+    fmt = prob.fmt
+    xr, yr, _ = prob.reference(coord)
+    gx, gy = prob.curvature(coord, k)
+    y_lo, y_hi = prob.y_range(coord)
+    xs = _equidistribute(xr, _profile(gx, 0), k, c, target, prob.p_lo, prob.p_hi, fmt, nmin)
+    ys = _equidistribute(yr, _profile(gy, 1), k, c, target, y_lo, y_hi, fmt, nmin)
+    pts = prob.check_set(coord)
+    Z = prob.nodes(coord, xs, ys)
+    for _ in range(MAX_ROUNDS):
+        if not np.all(np.isfinite(Z)):
+            return "the core has no value at some grid nodes"
+        res = _check(prob, coord, method, free_axis(xs, method, fmt), free_axis(ys, method, fmt),
+                     Z, pts)
+        bad = res.err > target
+        if not bad.any():
+            break
+        b = res.take(bad)
+        b.err = res.err[bad]
+        ix, iy, ex, ey = _directions(prob, coord, method, xs, ys, b)
+        do_x = ex >= 0.5 * ey
+        do_y = ey >= 0.5 * ex
+        xs2, nx_new = _split(xs, ix[do_x], fmt)
+        ys2, ny_new = _split(ys, iy[do_y], fmt)
+        if nx_new + ny_new == 0:
+            return "cells cannot be split further in the format"
+        if xs2.size > MAX_LINES or ys2.size > MAX_LINES or xs2.size * ys2.size > MAX_NODES:
+            return f"more than {MAX_NODES} nodes or {MAX_LINES} lines per axis would be needed"
+        xs, ys = xs2, ys2
+        Z = prob.nodes(coord, xs, ys)
+    else:
+        return f"tolerance not met after {MAX_ROUNDS} refinement rounds"
+    xs, ys, Z = _remove_lines(prob, coord, method, xs, ys, Z, target, pts)
+    return xs, ys, Z
+
+
+def _remove_lines(prob, coord, method, xs, ys, Z, target, pts):
+    """Drop, one at a time, every interior line whose removal keeps the check error within
+    ``target`` (only the cells the line touches are re-checked)."""
+    k, c, nmin = _ORDER[method]
+    fmt = prob.fmt
+    reach = 1 if method == "bilinear" else 3
+    for _ in range(3):
+        changed = False
+        for axis in (0, 1):
+            j = 1
+            while True:
+                lines = xs if axis == 0 else ys
+                if j >= lines.size - 1 or lines.size <= nmin:
+                    break
+                new = np.delete(lines, j)
+                Zn = np.delete(Z, j, axis=axis)
+                win = (lines[max(j - reach, 0)], lines[min(j + reach, lines.size - 1)])
+                if axis == 0:
+                    xa, ya = free_axis(new, method, fmt), free_axis(ys, method, fmt)
+                    res = _check(prob, coord, method, xa, ya, Zn, pts, xr=win)
+                else:
+                    xa, ya = free_axis(xs, method, fmt), free_axis(new, method, fmt)
+                    res = _check(prob, coord, method, xa, ya, Zn, pts, yr=win)
+                if res.err.size == 0 or np.max(res.err) <= target:
+                    if axis == 0:
+                        xs = new
+                    else:
+                        ys = new
+                    Z = Zn
+                    changed = True
+                else:
+                    j += 1
+        if not changed:
+            break
+    return xs, ys, Z
+
+
+def _fit_uniform(prob, coord, method, target):
+    """Uniform lines on both axes: the fewest nx * ny meeting ``target`` on the check points
+    (a model of the error gives the start; then bisection on ny for a few nx around it).
+    Returns (nx, ny, Z) or a reason."""
+    k, c, nmin = _ORDER[method]
+    fmt = prob.fmt
+    gx, gy = prob.curvature(coord, k)
+    y_lo, y_hi = prob.y_range(coord)
+    Gx = float(np.nanmax(gx)) if np.isfinite(gx).any() else 0.0
+    Gy = float(np.nanmax(gy)) if np.isfinite(gy).any() else 0.0
+    Lx, Ly = prob.p_hi - prob.p_lo, y_hi - y_lo
+    pts = prob.check_set(coord)
+    cache = {}
+
+    def model(G, L):
+        return max(nmin, int(math.ceil(L * (c * G / (0.5 * target)) ** (1.0 / k))) + 1)
+
+    def trial(nx, ny):
+        key = (nx, ny)
+        if key not in cache:
+            if nx * ny > MAX_NODES or nx > MAX_LINES or ny > MAX_LINES:
+                cache[key] = (False, None)
+            else:
+                xa = uniform_axis(prob.p_lo, prob.p_hi, nx, fmt)
+                ya = uniform_axis(y_lo, y_hi, ny, fmt)
+                Z = prob.nodes(coord, xa.lines, ya.lines)
+                if not np.all(np.isfinite(Z)):
+                    cache[key] = (False, None)
+                else:
+                    res = _check(prob, coord, method, xa, ya, Z, pts)
+                    cache[key] = (bool(res.err.size == 0 or np.max(res.err) <= target), Z)
+        return cache[key]
+
+    nx0, ny0 = model(Gx, Lx), model(Gy, Ly)
+    # smallest common scale of the model's counts that passes
+    lo_s, hi_s = 0.0, 1.0
+    while not trial(max(nmin, int(math.ceil(nx0 * hi_s))), max(nmin, int(math.ceil(ny0 * hi_s))))[0]:
+        lo_s, hi_s = hi_s, hi_s * 1.6
+        if nx0 * ny0 * hi_s * hi_s > MAX_NODES:
+            return f"more than {MAX_NODES} nodes would be needed"
+    for _ in range(6):
+        mid = 0.5 * (lo_s + hi_s)
+        if mid * nx0 < nmin and mid * ny0 < nmin:
+            break
+        if trial(max(nmin, int(math.ceil(nx0 * mid))), max(nmin, int(math.ceil(ny0 * mid))))[0]:
+            hi_s = mid
+        else:
+            lo_s = mid
+    nx1 = max(nmin, int(math.ceil(nx0 * hi_s)))
+    ny1 = max(nmin, int(math.ceil(ny0 * hi_s)))
+    best = (nx1 * ny1, nx1, ny1)
+
+    def min_ny(nx, start):
+        hi = start
+        while not trial(nx, hi)[0]:
+            hi = int(math.ceil(hi * 1.5)) + 1
+            if nx * hi > min(MAX_NODES, 4 * best[0]):
+                return None
+        lo = nmin - 1
+        while hi - lo > 1:
+            mid = (lo + hi) // 2
+            if trial(nx, mid)[0]:
+                hi = mid
+            else:
+                lo = mid
+        return hi
+
+    for f in (0.7, 0.85, 1.0, 1.2, 1.45):
+        nx = max(nmin, int(round(nx1 * f)))
+        ny = min_ny(nx, max(nmin, int(math.ceil(best[0] / nx))))
+        if ny is not None and nx * ny < best[0]:
+            best = (nx * ny, nx, ny)
+    # and the other way round, for the best nx: the fewest nx at its ny
+    _, nx, ny = best
+    lo = nmin - 1
+    hi = nx
+    while hi - lo > 1:
+        mid = (lo + hi) // 2
+        if trial(mid, ny)[0]:
+            hi = mid
+        else:
+            lo = mid
+    nx = hi
+    ok, Z = trial(nx, ny)
+    return nx, ny, Z
+
+
+def _make_grid(prob, coord, method, xax, yax, Z):
+    ft = prob.ft
+    return Grid2D(method=method, fmt=prob.fmt, x=xax, y=yax,
+                  z=arith.to_format(Z, prob.fmt).astype(np.float64), coord=coord,
+                  side=prob.side, near=float(ft(prob.dom.near)), far=float(ft(prob.dom.far)),
+                  near_rel=prob.dom.near_rel, far_rel=prob.dom.far_rel, helper=prob.helper_pw,
+                  policy=prob.policy)
+
+
+def fit_grid(prob, method, layouts=("free", "free"), coord=None, verify_points=100_000,
+             attempts=4):
+    """Fit one candidate and verify it; tighten the check target and refit while the dense
+    verification exceeds the tolerance. Returns (Grid2D or None, verification or None,
+    info dict with ``why`` when None)."""
+    coord = coord or prob.coords()[0]
+    if tuple(layouts) not in (("free", "free"), ("uniform", "uniform")):
+        raise ValueError(f"layouts must be ('free', 'free') or ('uniform', 'uniform'), "
+                         f"not {layouts!r}")
+    target = ACCEPT * prob.tol
+    info = {"refits": 0}
+    t0 = time.perf_counter()
+    y_lo, y_hi = prob.y_range(coord)
+    for attempt in range(attempts):
+        if layouts[0] == "free":
+            r = _fit_free(prob, coord, method, target)
+            if isinstance(r, str):
+                info["why"] = r
+                return None, None, info
+            xs, ys, Z = r
+            xax, yax = free_axis(xs, method, prob.fmt), free_axis(ys, method, prob.fmt)
+        else:
+            r = _fit_uniform(prob, coord, method, target)
+            if isinstance(r, str):
+                info["why"] = r
+                return None, None, info
+            nx, ny, Z = r
+            xax = uniform_axis(prob.p_lo, prob.p_hi, nx, prob.fmt)
+            yax = uniform_axis(y_lo, y_hi, ny, prob.fmt)
+        g = _make_grid(prob, coord, method, xax, yax, Z)
+        v = verify_grid(g, prob, verify_points)
+        info.update({"refits": attempt, "check_target": target,
+                     "seconds": time.perf_counter() - t0})
+        if v["max_error"] <= prob.tol:
+            return g, v, info
+        target *= min(0.9, 0.97 * prob.tol / v["max_error"])
+    info["why"] = (f"verification {v['max_error']:.3g} over tolerance after {attempts} fits")
+    return None, v, info
+
+
+# ---------------------------------------------------------------------------------------------
+# dense verification
+
+
+def _neighbours(a, fmt):
+    ft = arith.FORMATS[fmt]
+    a32 = np.asarray(a).astype(ft)
+    return np.concatenate([a32, np.nextafter(a32, ft(-np.inf)),
+                           np.nextafter(a32, ft(np.inf))]).astype(np.float64)
+
+
+def verification_inputs(g, prob, n, seed):
+    """Verification inputs (p, v) for grid ``g`` and a count of each kind. None of them is a
+    node or a check point of the fit: the four edges and corners; every grid line with its two
+    format neighbours at seeded random positions along it; a sub-grid inside every cell
+    (offsets clear of the cell centre); seeded random points (half uniform, half log-uniform
+    in p), about half of ``n``."""
+    coord, fmt = g.coord, g.fmt
+    rng = np.random.default_rng(seed)
+    d = prob.dom
+    parts, counts = [], {}
+    pe, ve = prob.edge_inputs(257)
+    parts.append((pe, ve))
+    counts["edges"] = int(pe.size)
+    m = 8
+    xl = _neighbours(g.x.lines, fmt)
+    xl = xl[(xl >= prob.p_lo) & (xl <= prob.p_hi)]
+    Px = np.repeat(xl, m)
+    near, far = d.limits(Px)
+    Vx = near + rng.uniform(0.0, 1.0, Px.size) * (far - near)
+    y_lo, y_hi = prob.y_range(coord)
+    yl = _neighbours(g.y.lines, fmt)
+    yl = yl[(yl >= y_lo) & (yl <= y_hi)]
+    Yy = np.repeat(yl, m)
+    Py = rng.uniform(prob.p_lo, prob.p_hi, Yy.size)
+    keep = prob.reachable(coord, Py, Yy)
+    Py, Yy = Py[keep], Yy[keep]
+    Vy = prob.v_of(coord, Py, Yy)
+    parts.append((np.concatenate([Px, Py]), np.concatenate([Vx, Vy])))
+    counts["grid_lines"] = int(Px.size + Py.size)
+    cells = (g.nx - 1) * (g.ny - 1)
+    ms = int(min(4, max(1, math.floor(math.sqrt(0.4 * n / cells)))))
+    off = (np.arange(ms) + 0.5) / ms + 0.061 / ms
+    xs, ys = g.x.lines, g.y.lines
+    cx = (xs[:-1, None] + np.diff(xs)[:, None] * off[None, :]).ravel()
+    cy = (ys[:-1, None] + np.diff(ys)[:, None] * off[None, :]).ravel()
+    Pc = np.repeat(cx, cy.size)
+    Yc = np.tile(cy, cx.size)
+    keep = prob.reachable(coord, Pc, Yc) & (Pc >= prob.p_lo) & (Pc <= prob.p_hi)
+    Pc, Yc = Pc[keep], Yc[keep]
+    parts.append((Pc, prob.v_of(coord, Pc, Yc)))
+    counts["cell_interior"] = int(Pc.size)
+    nr = max(n - sum(counts.values()), n // 2)
+    pr, vr = prob.random_inputs(nr, seed ^ 0x5EED)
+    parts.append((pr, vr))
+    counts["random"] = int(pr.size)
+    P = np.concatenate([a for a, _ in parts])
+    V = np.concatenate([b for _, b in parts])
+    return P, V, counts
+
+
+def _monotone_sign(a, axis):
+    d = np.diff(a, axis=axis)
+    d = d[np.isfinite(d)]
+    if d.size and np.all(d > 0):
+        return 1
+    if d.size and np.all(d < 0):
+        return -1
+    return 0
+
+
+def order_reversals(g, prob, lines=32, m=2048):
+    """Reversals of order in the emulated function along sweeps in each input, where the core
+    is monotone in that input over the domain: (along p at fixed v, along v at fixed p)."""
+    d = prob.dom
+    ps = np.linspace(prob.p_lo, prob.p_hi, lines)
+    near, far = d.limits(ps)
+    vv = np.linspace(0.0, 1.0, m)
+    V = near[:, None] + vv[None, :] * (far - near)[:, None]
+    P = np.repeat(ps[:, None], m, axis=1)
+    f_v = prob.f(P.ravel(), V.ravel()).reshape(P.shape)
+    sv = _monotone_sign(f_v, 1) * (1 if np.all(far >= near) else -1)
+    rev_v = 0
+    if sv:
+        y = g(P.ravel(), V.ravel()).astype(np.float64).reshape(P.shape)
+        rev_v = int(np.sum(np.diff(y, axis=1) * sv * np.sign(far - near)[:, None] < 0))
+    pn, pf_ = d.limits(np.linspace(prob.p_lo, prob.p_hi, 65))
+    vlo, vhi = float(np.min(np.minimum(pn, pf_))), float(np.max(np.maximum(pn, pf_)))
+    vs = np.linspace(vlo, vhi, lines)
+    pp = np.linspace(prob.p_lo, prob.p_hi, m)
+    nr, fr = d.limits(pp)
+    lo_v, hi_v = np.minimum(nr, fr), np.maximum(nr, fr)
+    rev_p = 0
+    sp_all = []
+    for v in vs:
+        inside = (v >= lo_v) & (v <= hi_v)
+        if inside.sum() < 3:
+            continue
+        p_in = pp[inside]
+        fv = prob.f(p_in, np.full(p_in.shape, v))
+        sp_all.append((p_in, v, fv))
+    signs = {_monotone_sign(fv, 0) for _, _, fv in sp_all}
+    sp = signs.pop() if len(signs) == 1 else 0
+    if sp:
+        for p_in, v, _ in sp_all:
+            y = g(p_in, np.full(p_in.shape, v)).astype(np.float64)
+            rev_p += int(np.sum(np.diff(y) * sp < 0))
+    return {"along_p": rev_p if sp else None, "along_v": rev_v if sv else None}
+
+
+def verify_grid(g, prob, n=100_000, seed=None):
+    """Total error of the emulated function (helper, coordinate, grid, every rounding) at the
+    verification inputs, against the core. A sampled maximum, not a bound."""
+    seed = _seed(prob.key, "verify") if seed is None else int(seed)
+    P, V, counts = verification_inputs(g, prob, n, seed)
+    kind = np.repeat(np.arange(len(counts)), list(counts.values()))
+    truth = prob.f(P, V)
+    ok = np.isfinite(truth)
+    P, V, truth, kind = P[ok], V[ok], truth[ok], kind[ok]
+    sc = prob.scale(truth)
+    y = g(P, V).astype(np.float64)
+    e = (y - truth) / sc
+    ae = np.where(np.isfinite(e), np.abs(e), np.inf)
+    i = int(np.argmax(ae))
+    res = {"points": int(P.size), "max_error": float(ae[i]), "at": (float(P[i]), float(V[i])),
+           "signed_error_at_max": float(e[i]), "rms_error": float(np.sqrt(np.mean(e * e))),
+           "counts": counts, "seed": seed}
+    res["max_by_kind"] = {name: float(np.max(ae[kind == j])) if np.any(kind == j) else 0.0
+                          for j, name in enumerate(counts)}
+    if g.fmt == "float32":
+        yf = g(P, V, fused=True).astype(np.float64)
+        res["max_error_fused"] = float(np.max(np.abs(yf - truth) / sc))
+    st = g.status(P, V)
+    res["outside_by_run_time"] = int(np.sum(st != arith.IN_RANGE))
+    res["reversals"] = order_reversals(g, prob)
+    return res
