@@ -62,7 +62,9 @@ Offers
     ``verify_grid(...)``, ``verify_integer(...)``  the 2-D and integer verifications
     ``suggest_replacement(...)``         what h2olut would build for the same range and tolerance
     ``audit_piecewise(table)``           re-verify a table h2olut built (same points, same result)
-    ``audit_generated(report_path)``     re-verify h2olut's output from report.json + NAME.py
+    ``audit_generated(report_path)``     re-verify h2olut's output from report.json + NAME.py,
+                                         running the module's own run-time code
+    ``GeneratedFunction``                one function of a generated module, for verify_table
     ``audit_record``, ``audit_report_json``, ``audit_report_markdown``, ``audit_error_plot``,
     ``audit_files(audit)`` -> {file name: bytes}
 """
@@ -188,6 +190,12 @@ def audit_spec(quantity, inputs=(), input_units=(), output_unit=None, interpolat
         raise AuditError(f"--interpolation: must be one of {', '.join(INTERPOLATIONS)}, "
                          f"not {interpolation!r}")
     two = interpolation == "bilinear"
+    if two and not any(len(t) == 2 for t in q.inputs):
+        raise AuditError(f"--interpolation: bilinear is for two-input grids; {quantity} has "
+                         f"one input ({' or '.join(t[0] for t in q.inputs)})")
+    if not two and not any(len(t) == 1 for t in q.inputs):
+        raise AuditError(f"--interpolation: {quantity} has two inputs; audit it as a grid "
+                         f"with --interpolation bilinear")
     inputs = tuple(inputs)
     if not inputs:
         fitting = [t for t in q.inputs if (len(t) == 2) == two]
@@ -1167,14 +1175,21 @@ def _monotone(fx):
     return 0
 
 
-def _steps(spec, lo, hi):
-    """Inputs inside the span where the core itself switches equations (and may step)."""
+def _steps(spec, lo, hi, f):
+    """Inputs inside the span where the core itself steps (IF97 switching to its region-3
+    equation along saturation at 623.15 K, for the quantities that jump there)."""
     inp = spec.inputs[0]
     sw = Q.SATURATION_SWITCH.get(inp.quantity)
     if sw is None or Q.CATALOGUE[spec.quantity].family != "saturation":
         return []
     xb = (sw - inp.offset) / inp.scale
-    return [xb] if lo < xb < hi else []
+    if not lo < xb < hi:
+        return []
+    eps = 1e-9
+    a, b = xb * (1 - eps), xb * (1 + eps)
+    fa, fb = f(np.array([a, b]))
+    slope = abs(float(f(np.array([xb * 1.001]))[0] - f(np.array([xb * 0.999]))[0])) / (0.002 * abs(xb))
+    return [xb] if abs(fb - fa) > 100 * slope * (b - a) + 1e-12 * abs(fa) else []
 
 
 # ------------------------------------------------------------------------------------------
@@ -1451,7 +1466,7 @@ def _audit_1d(source, name, sha, spec, table, cells, seed):
     lo, hi = table.lo, table.hi
     xs = np.unique(np.concatenate([np.linspace(lo, hi, 4097), table.row_inputs()]))
     monotone = _monotone(f(xs))
-    steps = _steps(spec, lo, hi)
+    steps = _steps(spec, lo, hi, f)
     n = spec.verify_points
     if table.integer:
         v = verify_integer(table, f, scale, n, seed, monotone, steps)
@@ -1496,8 +1511,9 @@ def _audit_1d(source, name, sha, spec, table, cells, seed):
                      f"{_fmt(float(np.max(dfdx)) * table.scale_in / 2)} {spec.output_unit} "
                      f"before the table is consulted.")
     for s in steps:
-        notes.append(f"IF97 switches equations along saturation at 623.15 K ({_fmt(s)} "
-                     f"{inp.unit}); the core's own step there is not counted as a reversal.")
+        notes.append(f"IF97 switches to its region-3 equation along saturation at 623.15 K "
+                     f"({_fmt(s)} {inp.unit}) and the core's value steps there; a reversal "
+                     f"across that input is not counted.")
     used = _used_range(spec, table, f, scale)
     if used:
         findings += used.pop("findings")
@@ -1802,28 +1818,65 @@ def _load_module(path):
     return mod
 
 
-def generated_piecewise(module, function):
-    """The :class:`gen.fit.piecewise.Piecewise1D` a generated Python module stores for
-    ``function`` (rebuilt from its stored values, nothing refitted)."""
-    from .fit.piecewise import Piecewise1D
-    tab = getattr(module, f"_{function}")
-    fmt = tab["fmt"]
-    x = tab["x"]
-    if x is not None:
-        x = np.concatenate([np.asarray(x, dtype=np.float64), [float(tab["hi"])]])
-    f64 = (lambda v: None if v is None else np.asarray(v, dtype=np.float64))
-    return Piecewise1D(tab["layout"], fmt, float(tab["lo"]), float(tab["hi"]),
-                       np.asarray(tab["coef"], dtype=np.float64), tab["policy"], x,
-                       f64(tab["inv_w"]), None if tab["x0"] is None else float(tab["x0"]),
-                       None if tab["inv_h"] is None else float(tab["inv_h"]), int(tab["k"]),
-                       int(tab["key0"]))
+class GeneratedFunction:
+    """One function of a generated Python module, evaluated by the module's own copy of the
+    run-time code on its stored values; ``lo``, ``hi``, ``fmt``, ``breakpoints()`` and
+    ``__call__(x, fused)`` make it a drop-in for :func:`gen.verify.verify_table`."""
+
+    def __init__(self, module, function, breakpoints):
+        self.module = module
+        self.function = function
+        self.tab = getattr(module, f"_{function}")
+        self.fmt = self.tab["fmt"]
+        self.layout = self.tab["layout"]
+        self.lo = float(self.tab["lo"])
+        self.hi = float(self.tab["hi"])
+        self.policy = self.tab["policy"]
+        self._breakpoints = np.asarray(breakpoints, dtype=np.float64)
+
+    def __repr__(self):
+        return f"GeneratedFunction({self.function!r}, layout={self.layout!r}, fmt={self.fmt!r})"
+
+    def breakpoints(self):
+        return self._breakpoints
+
+    def __call__(self, xin, fused=False):
+        t, m = self.tab, self.module
+        if self.layout == "closed_form":
+            k = t["k"]
+            return m.evaluate_saturation_line(xin, t["fmt"], t["kind"], k[:10], k[10], k[11],
+                                              k[12], k[13], t["lo"], t["hi"], t["policy"],
+                                              fused=fused)
+        return m.evaluate(xin, t["fmt"], t["layout"], t["lo"], t["hi"], t["policy"], t["coef"],
+                          x=t["x"], inv_w=t["inv_w"], x0=t["x0"], inv_h=t["inv_h"], k=t["k"],
+                          key0=t["key0"], fused=fused)
+
+
+def _upper_switches(quantity, inp, breakpoints, fmt):
+    """Interior breakpoints that are the first ``fmt`` input on IF97's region-3 equation along
+    saturation (where the core itself may step); monotonicity is not asked across them."""
+    if Q.CATALOGUE[quantity].family != "saturation" or inp.quantity not in Q.SATURATION_SWITCH:
+        return []
+    ft = FLOAT_FORMATS[fmt]
+    out = []
+    for b in breakpoints[1:-1]:
+        below = float(np.nextafter(ft(b), ft(-np.inf)))
+        si = np.array([b, below]) * inp.scale + inp.offset
+        up = Q.on_upper_equation(inp.quantity, si)
+        if bool(up[0]) and not bool(up[1]):
+            out.append(float(b))
+    return out
 
 
 def audit_generated(report_path, module_path=None):
     """Re-verify every table of an h2olut output set from its ``report.json`` and the
     generated Python module beside it (``NAME.py``), with :func:`gen.verify.verify_table` on
     the report's seed and point count. Returns one dict per table: name, function, kind,
-    reported and measured max error and where, ``same`` (equal to the bit) and ``within``."""
+    reported and measured max error and where, ``same`` (equal to the bit) and ``within``.
+
+    The function is evaluated by the module's own run-time code on its stored values (see
+    :class:`GeneratedFunction`); the verification points come from the report's breakpoints,
+    seed and count, so the result depends on what was shipped, not on how it was made."""
     rp = Path(report_path)
     try:
         doc = json.loads(rp.read_text(encoding="utf-8"))
@@ -1842,27 +1895,28 @@ def audit_generated(report_path, module_path=None):
         fn = rec["function"]
         if not hasattr(mod, f"_{fn}"):
             raise AuditError(f"{mp}:1:1: no stored table for {fn}")
-        pw = generated_piecewise(mod, fn)
-        kind, tol = next(iter(rec["tolerance"].items()))
-        inp = rec["inputs"][0]
-        qkind = Q.INPUT_KIND[inp["quantity"]]
-        sc, off = U.to_si_map(inp["unit"], qkind)
-        off += inp.get("atmosphere_pa", 0.0) or 0.0
-        spec = AuditSpec(quantity=rec["quantity"],
-                         inputs=(AuditInput(inp["quantity"], inp["unit"], sc, off,
-                                            inp.get("atmosphere_pa")),),
-                         output_unit=rec["output"]["unit"],
-                         out_scale=U.to_si_map(rec["output"]["unit"],
-                                               Q.CATALOGUE[rec["quantity"]].kind)[0],
-                         out_offset=U.to_si_map(rec["output"]["unit"],
-                                                Q.CATALOGUE[rec["quantity"]].kind)[1],
+        try:
+            kind, tol = next(iter(rec["tolerance"].items()))
+            inp = rec["inputs"][0]
+            okind = Q.CATALOGUE[rec["quantity"]].kind
+            sc, off = U.to_si_map(inp["unit"], Q.INPUT_KIND[inp["quantity"]])
+            osc, ooff = U.to_si_map(rec["output"]["unit"], okind)
+            ver = rec["verification"]
+            seed, npts = int(ver["seed"]), int(rec["verification_points"])
+            brk = rec["method"]["breakpoints"]
+        except (KeyError, TypeError, StopIteration, AttributeError, U.UnitError):
+            raise AuditError(f"{report_path}:1:1: table {rec.get('name')!r} lacks what a "
+                             f"re-verification needs (tolerance, inputs, units, seed, "
+                             f"breakpoints)") from None
+        atm = inp.get("atmosphere_pa")
+        ai = AuditInput(inp["quantity"], inp["unit"], sc, off + (atm or 0.0), atm)
+        spec = AuditSpec(quantity=rec["quantity"], inputs=(ai,),
+                         output_unit=rec["output"]["unit"], out_scale=osc, out_offset=ooff,
                          tol_kind=kind, tol_value=tol)
-        f = core_function(spec)
-        ver = rec.get("verification", {})
-        steps = [float(np.float32(s)) if pw.fmt == "float32" else s
-                 for s in _steps(spec, pw.lo, pw.hi)]
-        v = verify_table(pw, f, error_scale(kind), int(rec["verification_points"]),
-                         int(ver["seed"]), int(ver.get("monotone", 0)), steps)
+        g = GeneratedFunction(mod, fn, brk)
+        steps = _upper_switches(rec["quantity"], ai, g.breakpoints(), g.fmt)
+        v = verify_table(g, core_function(spec), error_scale(kind), npts, seed,
+                         int(ver.get("monotone", 0)), steps)
         reported = rec["max_error"][kind]
         same = v["max_error"] == reported and [v["at"]] == rec.get("max_error_at")
         out.append({"name": rec["name"], "function": fn, "kind": kind, "tolerance": tol,
@@ -1906,7 +1960,8 @@ def audit_record(audit):
     out = {"quantity": spec.quantity, "unit": spec.output_unit}
     if t.integer:
         out.update(ctype=f"{spec.arithmetic}_t", scale=spec.scale_out)
-    method = {"kind": "audited_table", "interpolation": spec.interpolation,
+    method = {"kind": "audited_table", "layout": spec.interpolation,
+              "interpolation": spec.interpolation,
               "rows": (t.shape[0] if two else t.rows), "stored_values": t.stored_values,
               "out_of_range": spec.out_of_range, "estimated_ops": estimated_ops_table(t)}
     if two:
