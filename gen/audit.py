@@ -817,14 +817,34 @@ def _check_axis(source, spec, k, vals, lines, cols, integer, scale):
 
 
 def _int_range(source, spec, vals, lines, cols):
+    """Raw values must fit the storage type; ``vals``, ``lines``, ``cols`` are 2-D alike."""
     lo, hi, _ = INT_FORMATS[spec.arithmetic]
     bad = (vals < lo) | (vals > hi)
     if bad.any():
         r, c = np.argwhere(bad)[0]
-        _err(source, lines[r, c] if np.ndim(lines) == 2 else lines[r],
-             cols[r, c] if np.ndim(cols) == 2 else cols[r],
-             f"{int(vals[r, c] if vals.ndim == 2 else vals[r])} does not fit in "
-             f"{spec.arithmetic}_t ({lo} to {hi})")
+        _err(source, lines[r, c], cols[r, c],
+             f"{int(vals[r, c])} does not fit in {spec.arithmetic}_t ({lo} to {hi})")
+
+
+_HEADER_UNIT = re.compile(r"[\[(]\s*([^\])]+?)\s*[\])]")
+
+
+def _header_notes(spec, header):
+    """Units written in the header (``p [kPa]``, ``T (degF)``) that disagree with the options."""
+    notes = []
+    names = [(i.unit, Q.INPUT_KIND[i.quantity]) for i in spec.inputs] + \
+        [(spec.output_unit, spec.output_kind)]
+    for cell, (unit, kind) in zip(header, names):
+        m = _HEADER_UNIT.search(cell)
+        if not m:
+            continue
+        try:
+            said = U.to_si_map(m.group(1), kind)
+        except U.UnitError:
+            continue
+        if said != U.to_si_map(unit, kind):
+            notes.append(f"the header says {cell!r} but the table is read in {unit}")
+    return notes
 
 
 def read_table(data, source, spec):
@@ -1065,8 +1085,8 @@ def verify_grid(grid, f, scale, n, seed):
     integer = grid.integer
     fmt = grid.fmt
     sa, sb = grid.scale_in if integer else (1.0, 1.0)
-    an = _neighbours(grid.a if integer else grid.a, fmt, integer, sa)
-    bn = _neighbours(grid.b if integer else grid.b, fmt, integer, sb)
+    an = _neighbours(grid.a, fmt, integer, sa)
+    bn = _neighbours(grid.b, fmt, integer, sb)
     an = np.unique(an[(an >= alo) & (an <= ahi)])
     bn = np.unique(bn[(bn >= blo) & (bn <= bhi)])
     pa, pb = np.meshgrid(an, bn, indexing="ij")
@@ -1127,7 +1147,7 @@ def verify_grid(grid, f, scale, n, seed):
     return res, cell_max
 
 
-def _format_floor_1d(table, f, scale, spec):
+def _format_floor_1d(table, f, scale):
     lo, hi = table.lo, table.hi
     if table.integer:
         x = table.row_inputs()
@@ -1473,7 +1493,7 @@ def _audit_1d(source, name, sha, spec, table, cells, seed):
     else:
         v = verify_table(table, f, scale, n, seed, monotone, steps)
     v = {**v, "at": float(v["at"])}
-    floor = _format_floor_1d(table, f, scale, spec)
+    floor = _format_floor_1d(table, f, scale)
     findings, notes = [], []
     xb = table.row_inputs()
     yv = table.y.astype(np.float64) * (table.scale_out if table.integer else 1.0)
@@ -1514,6 +1534,7 @@ def _audit_1d(source, name, sha, spec, table, cells, seed):
         notes.append(f"IF97 switches to its region-3 equation along saturation at 623.15 K "
                      f"({_fmt(s)} {inp.unit}) and the core's value steps there; a reversal "
                      f"across that input is not counted.")
+    notes += _header_notes(spec, cells.header)
     used = _used_range(spec, table, f, scale)
     if used:
         findings += used.pop("findings")

@@ -152,6 +152,8 @@ def audit(table, quantity, inputs, input_units, output_unit, atmosphere, interpo
         click.echo(f"  defect ({d['kind'].replace('_', ' ')}): {d['text']}")
     if not result.findings:
         click.echo("  no defects found")
+    for n in result.notes:
+        click.echo(f"  note: {n}")
     if result.replacement:
         click.echo(f"  replacement: {result.replacement['line']}")
     click.echo(verdict_line(result))

@@ -396,6 +396,40 @@ def test_grid_across_saturation_and_a_wrong_unit_cell():
     assert a.within is False
 
 
+def test_integer_bilinear_matches_python_ints():
+    """Raw pressure 0.01 bar, raw temperature 0.1 degC, raw density 0.001 kg/m^3 (from the
+    core); the documented integer bilinear formula in plain Python ints at random raw inputs."""
+    pr = np.arange(100, 1001, 100)
+    tr = np.arange(2000, 4001, 250)
+    z = Q.evaluate("density", pressure=pr[:, None] * 0.01 * 1e5,
+                   temperature=tr[None, :] * 0.1 + 273.15)
+    zr = np.rint(z / 0.001).astype(int)
+    lines = ["p/T," + ",".join(str(v) for v in tr)]
+    lines += [f"{a}," + ",".join(str(v) for v in row) for a, row in zip(pr, zr)]
+    spec = grid_spec(arithmetic="int32", scale_in=[0.01, 0.1], scale_out=0.001)
+    a = A.audit_bytes("\n".join(lines), "rint.csv", spec)
+    rng = np.random.default_rng(3)
+    P = rng.integers(100, 1001, 2000)
+    S = rng.integers(2000, 4001, 2000)
+    ref = []
+    for x, y in zip(P.tolist(), S.tolist()):
+        i = min(int(np.searchsorted(pr, x, side="right")) - 1, pr.size - 2)
+        j = min(int(np.searchsorted(tr, y, side="right")) - 1, tr.size - 2)
+        wa, wb = int(pr[i + 1] - pr[i]), int(tr[j + 1] - tr[j])
+        y0 = int(zr[i, j]) + c_div((int(zr[i + 1, j]) - int(zr[i, j])) * (x - int(pr[i])), wa)
+        y1 = int(zr[i, j + 1]) + c_div((int(zr[i + 1, j + 1]) - int(zr[i, j + 1]))
+                                       * (x - int(pr[i])), wa)
+        ref.append(y0 + c_div((y1 - y0) * (y - int(tr[j])), wb))
+    assert np.array_equal(a.table(P * 0.01, S * 0.1), np.array(ref) * 0.001)
+    assert a.findings == []
+
+
+def test_header_unit_disagreeing_with_the_options_is_noted():
+    cells = tsat_cells()
+    a = A.audit_bytes(csv_text(cells, header="p [kPa],T [degC]"), "t.csv", tsat_spec())
+    assert a.notes == ["the header says 'p [kPa]' but the table is read in bar"]
+
+
 # --------------------------------------------------------------------------------------------
 # the command: exit status, files, bad CSV
 
