@@ -1035,8 +1035,8 @@ def _result(points, e, counts, seed, e_fused=None):
 
 def verify_integer(table, f, scale, n, seed, monotone=0, steps=()):
     """Verify an integer :class:`Lookup1D` at raw inputs: every raw input when there are at
-    most ``n``, else the rows and their raw neighbours, the worst raw input of each interval
-    (on up to 257 per interval) with its neighbours, and seeded random raw inputs."""
+    most ``n``, else the rows and their raw neighbours, every raw input within one step of
+    the worst point of a 257-point grid in each interval, and seeded random raw inputs."""
     xr = table.x
     sc = table.scale_in
     total = int(xr[-1] - xr[0] + 1)
@@ -1047,10 +1047,14 @@ def verify_integer(table, f, scale, n, seed, monotone=0, steps=()):
         g = np.linspace(0.0, 1.0, 257)
         xa, xb = xr[:-1].astype(np.float64), xr[1:].astype(np.float64)
         fine = np.rint(xa[:, None] + (xb - xa)[:, None] * g[None, :])
-        ee = np.abs((table(fine.ravel() * sc) - f(fine.ravel() * sc))
-                    / scale(f(fine.ravel() * sc))).reshape(fine.shape)
+        xf = fine.ravel() * sc
+        ff = f(xf)
+        ee = np.abs((table(xf) - ff) / scale(ff)).reshape(fine.shape)
         worst = fine[np.arange(fine.shape[0]), np.argmax(ee, axis=1)]
-        d = np.concatenate([_neighbours(xr, "", True), _neighbours(worst, "", True)])
+        # every raw input within one fine-grid step of each interval's worst
+        reach = int(np.ceil(np.max(xb - xa) / 256.0))
+        around = (worst[:, None] + np.arange(-reach, reach + 1)[None, :]).ravel()
+        d = np.concatenate([_neighbours(xr, "", True), around])
         d = np.unique(d[(d >= xr[0]) & (d <= xr[-1])])
         rng = np.random.default_rng(seed)
         m = max(n - d.size, 0)

@@ -396,6 +396,20 @@ def test_grid_across_saturation_and_a_wrong_unit_cell():
     assert a.within is False
 
 
+def test_integer_sampled_finds_the_exhaustive_maximum():
+    """190,001 raw inputs: sampled on 20,000 points, the maximum equals the one over all."""
+    xr = np.arange(10_000, 200_001, 10_000)
+    yr = np.rint(tsat_degc(xr * 1e-4) * 1e4).astype(np.int64)
+    text = "\n".join(f"{x},{y}" for x, y in zip(xr, yr))
+    few = A.audit_bytes(text, "b.csv", tsat_spec(arithmetic="int32", scale_in=[1e-4],
+                                                 scale_out=1e-4, verify_points=20_000))
+    every = A.audit_bytes(text, "b.csv", tsat_spec(arithmetic="int32", scale_in=[1e-4],
+                                                   scale_out=1e-4, verify_points=200_000))
+    assert "exhaustive" not in few.verification["counts"]
+    assert every.verification["counts"]["exhaustive"] == 190_001
+    assert few.verification["max_error"] == every.verification["max_error"]
+
+
 def test_integer_bilinear_matches_python_ints():
     """Raw pressure 0.01 bar, raw temperature 0.1 degC, raw density 0.001 kg/m^3 (from the
     core); the documented integer bilinear formula in plain Python ints at random raw inputs."""
