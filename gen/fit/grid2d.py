@@ -1256,6 +1256,7 @@ def _fit_uniform(prob, coord, method, target):
                 Z = prob.nodes(coord, xa.lines, ya.lines)
                 if not np.all(np.isfinite(Z)):
                     cache[key] = (False, None)
+                    cache["no_value"] = True
                 else:
                     res = _check(prob, coord, method, xa, ya, Z, pts)
                     cache[key] = (bool(res.err.size == 0 or np.max(res.err) <= target), Z)
@@ -1265,6 +1266,8 @@ def _fit_uniform(prob, coord, method, target):
     # smallest common scale of the model's counts that passes
     lo_s, hi_s = 0.0, 1.0
     while not trial(max(nmin, int(math.ceil(nx0 * hi_s))), max(nmin, int(math.ceil(ny0 * hi_s))))[0]:
+        if cache.get("no_value"):
+            return "the core has no value at some grid nodes"
         lo_s, hi_s = hi_s, hi_s * 1.6
         if nx0 * ny0 * hi_s * hi_s > MAX_NODES:
             return f"more than {MAX_NODES} nodes would be needed"
@@ -1359,6 +1362,8 @@ def fit_grid(prob, method, layouts=("free", "free"), coord=None, verify_points=1
                      "seconds": time.perf_counter() - t0})
         if v["max_error"] <= prob.tol:
             return g, v, info
+        if not math.isfinite(v["max_error"]):
+            break
         target *= min(0.9, 0.97 * prob.tol / v["max_error"])
     info["why"] = (f"verification {v['max_error']:.3g} over tolerance after {attempts} fits")
     return None, v, info
@@ -1484,6 +1489,12 @@ def verify_grid(g, prob, n=100_000, seed=None):
     ok = np.isfinite(truth)
     P, V, truth, kind = P[ok], V[ok], truth[ok], kind[ok]
     sc = prob.scale(truth)
+    st = g.status(P, V)
+    if g.policy == "nan":
+        # inside the exact domain but outside it by the run time's own limits (within the
+        # helper's error of a limit measured from saturation): NaN by design, counted apart
+        keep = st == arith.IN_RANGE
+        P, V, truth, kind, sc, st = P[keep], V[keep], truth[keep], kind[keep], sc[keep], st[keep]
     y = g(P, V).astype(np.float64)
     e = (y - truth) / sc
     ae = np.where(np.isfinite(e), np.abs(e), np.inf)
@@ -1496,7 +1507,245 @@ def verify_grid(g, prob, n=100_000, seed=None):
     if g.fmt == "float32":
         yf = g(P, V, fused=True).astype(np.float64)
         res["max_error_fused"] = float(np.max(np.abs(yf - truth) / sc))
-    st = g.status(P, V)
-    res["outside_by_run_time"] = int(np.sum(st != arith.IN_RANGE))
+    res["outside_by_run_time"] = int(np.sum(ok) - np.sum(st == arith.IN_RANGE))
     res["reversals"] = order_reversals(g, prob)
     return res
+
+
+# ---------------------------------------------------------------------------------------------
+# candidates and the choice
+
+#: the candidates tried by default: (method, (x layout, y layout))
+CANDIDATES = (("bilinear", ("free", "free")), ("bilinear", ("uniform", "uniform")),
+              ("bicubic", ("free", "free")), ("bicubic", ("uniform", "uniform")))
+
+
+@dataclass
+class GridTable:
+    """A chosen, verified two-input table with what the report needs beside it."""
+    domain: Domain2D
+    grid: Grid2D
+    verification: dict
+    candidates: list
+    tol_kind: str
+    tol: float
+    goal: str
+    floor: float
+    helper: object = None        # gen.build.Table of S(p), or None
+    notes: list = field(default_factory=list)
+    seconds: float = 0.0
+
+    def __repr__(self):
+        return (f"GridTable({self.domain!r}, {self.grid!r}, max_error="
+                f"{self.verification['max_error']:.3g})")
+
+
+def _key(row, goal):
+    if goal == "smallest":
+        return (row["storage_bytes"], row["estimated_ops"])
+    return (row["estimated_ops"], row["storage_bytes"])
+
+
+def build_grid(dom, tol_kind, tol, fmt="float32", policy="clamp", goal="smallest",
+               candidates=CANDIDATES, coords=None, verify_points=100_000, progress=None):
+    """Fit every candidate (method x axis layouts x coordinate), verify each, and return the
+    best for ``goal`` ("smallest": stored bytes, helper included; "fastest": estimated
+    operations per call) as a :class:`GridTable`. Raises :class:`DomainError` for a domain or
+    tolerance that cannot be met, with a one-line message."""
+    t0 = time.perf_counter()
+    if tol_kind not in ("abs", "rel") or not (tol > 0):
+        raise DomainError(f"tolerance must be abs or rel and positive, not {tol_kind} {tol!r}")
+    if goal not in GOALS:
+        raise DomainError(f"goal must be one of {', '.join(GOALS)}, not {goal!r}")
+    notes = check_domain(dom, tol_kind, tol)
+    prob0 = Problem(dom, tol_kind, tol, fmt, policy)
+    floor = prob0.floor()
+    unit = dom.out_unit if tol_kind == "abs" else "(relative)"
+    if tol < 3.0 * floor:
+        feasible = float(f"{3.05 * floor:.2g}")
+        raise DomainError(
+            f"tolerance {tol:g} {unit} is below what {fmt} can deliver over "
+            f"{describe_domain(dom)} (input and output rounding alone give up to {floor:.2g}); "
+            f"the smallest feasible is {feasible:g}")
+    helper = None
+    if dom.side:
+        tol_v = HELPER_SHARE * tol / max(prob0.slope_v(), 1e-300)
+        if progress:
+            progress(f"saturation helper within {tol_v:.3g} {dom.v_unit}")
+        helper = saturation_helper(dom, fmt, tol_v, goal)
+        notes.append(f"saturation helper {dom.sat_quantity} within {tol_v:.3g} {dom.v_unit} "
+                     f"(verified {helper.verification['max_error']:.3g}); its error reaches the "
+                     f"output through a slope of up to {prob0.slope_v():.3g} per {dom.v_unit} "
+                     f"and is part of the verified total")
+    prob = Problem(dom, tol_kind, tol, fmt, policy, helper)
+    for k, v in prob0._cache.items():
+        if k[0] in ("ref", "curv", "check_inputs") or k in ("floor", "slope_v"):
+            prob._cache[k] = v
+    rows, grids = [], []
+    for coord in (coords or prob.coords()):
+        for method, layouts in candidates:
+            if progress:
+                progress(f"{method} {layouts[0]}/{layouts[1]} in {coord} coordinates")
+            g, v, info = fit_grid(prob, method, layouts, coord, verify_points)
+            row = {"method": method, "x_layout": layouts[0], "y_layout": layouts[1],
+                   "coord": coord, "met": g is not None, "refits": info.get("refits", 0),
+                   "seconds": round(info.get("seconds", 0.0), 3)}
+            if g is None:
+                row["why"] = info.get("why", "not met")
+                if v is not None:
+                    row["max_error"] = v["max_error"]
+            else:
+                row.update({"nx": g.nx, "ny": g.ny, "stored_values": g.stored_values(),
+                            "storage_bytes": g.storage_bytes,
+                            "grid_bytes": g.grid_values() * g.itemsize,
+                            "helper_bytes": g.helper.storage_bytes if g.helper else 0,
+                            "estimated_ops": estimated_ops(g), "max_error": v["max_error"],
+                            "max_error_fused": v.get("max_error_fused"),
+                            "points": v["points"], "reversals": v["reversals"]})
+            rows.append(row)
+            grids.append((g, v))
+    met = [i for i, r in enumerate(rows) if r["met"]]
+    if not met:
+        why = "; ".join(f"{r['method']} {r['x_layout']} {r['coord']}: {r.get('why')}" for r in rows)
+        raise DomainError(f"no candidate met tolerance {tol:g} {unit} over "
+                          f"{describe_domain(dom)} ({why})")
+    best = min(met, key=lambda i: _key(rows[i], goal))
+    for i, r in enumerate(rows):
+        r["chosen"] = i == best
+    g, v = grids[best]
+    return GridTable(domain=dom, grid=g, verification=v, candidates=rows, tol_kind=tol_kind,
+                     tol=float(tol), goal=goal, floor=floor, helper=helper, notes=notes,
+                     seconds=time.perf_counter() - t0)
+
+
+# ---------------------------------------------------------------------------------------------
+# the C view: the dict templates/c_grid2d.j2 renders
+
+
+def _lits(values, fmt, per_line=4):
+    from ..emit.common import hex_literal
+    lits = [hex_literal(v, fmt) for v in values]
+    return [", ".join(lits[i:i + per_line]) for i in range(0, len(lits), per_line)]
+
+
+def _lit(v, fmt):
+    from ..emit.common import decimal, hex_literal
+    return {"lit": hex_literal(arith.to_format(v, fmt), fmt), "dec": decimal(v, fmt)}
+
+
+def _axis_context(ax, method, fmt, unit):
+    from ..emit.common import c_comment
+    d = {"layout": ax.layout, "n": ax.n, "lo": _lit(ax.lo, fmt), "hi": _lit(ax.hi, fmt),
+         "unit": c_comment(unit)}
+    if ax.layout == "uniform":
+        d["x0"] = _lit(ax.x0, fmt)
+        d["inv_h"] = _lit(ax.inv_h, fmt)
+    elif method == "bilinear":
+        d["nlines"] = ax.n - 1
+        d["lines"] = _lits(np.asarray(ax.lines)[:-1], fmt)
+        d["iw"] = _lits(ax.iw, fmt)
+    else:
+        d["nlines"] = ax.n
+        d["lines"] = _lits(ax.lines, fmt)
+        d["den"] = [", ".join(_lits(r, fmt, 4)) for r in np.asarray(ax.den)]
+    return d
+
+
+def grid_summary(gt):
+    """Plain strings describing a two-input table, for the C error block and the report."""
+    dom, g, v = gt.domain, gt.grid, gt.verification
+    tol = (f"{gt.tol:g} {dom.out_unit}" if gt.tol_kind == "abs"
+           else f"{gt.tol * 100:g} % of the value")
+
+    def err(e):
+        return (f"{e:.3g} {dom.out_unit}" if gt.tol_kind == "abs" else f"{e * 100:.3g} %")
+
+    at = v["at"]
+    coord = {"raw": f"{_WORDS[dom.second]} itself",
+             "offset": (f"{'superheat' if dom.side > 0 else 'subcooling'} "
+                        f"y = {'v - S(p)' if dom.side > 0 else 'S(p) - v'} in {dom.v_unit}"
+                        + ("" if dom.near_rel and dom.far_rel else
+                           "; absolute limits clamp v first, so part of the grid is not "
+                           "reached")),
+             "normalized": "y = (v - near(p)) / (far(p) - near(p)), one division"}[g.coord]
+    method = {"bilinear": "bilinear interpolation of node values",
+              "bicubic": "four-node Lagrange interpolation per axis over 4x4 node values "
+                         "(continuous, not smooth, across cell edges)"}[g.method]
+    lay = {"free": "free lines, binary search", "uniform": "equal spacing, index computed"}
+    ctype = "float" if g.fmt == "float32" else "double"
+    hb = g.helper.storage_bytes if g.helper is not None else 0
+    return {
+        "quantity": dom.quantity.replace("_", " "),
+        "output_unit": dom.out_unit,
+        "p_unit": dom.p_unit,
+        "second": _WORDS[dom.second],
+        "v_unit": dom.v_unit,
+        "domain": describe_domain(dom),
+        "tolerance": tol,
+        "max_error": err(v["max_error"]),
+        "max_error_at": f"p = {_g(at[0])} {dom.p_unit}, {_WORDS[dom.second]} = {_g(at[1])} "
+                        f"{dom.v_unit}",
+        "points": v["points"],
+        "verified": (f"{err(v['max_error'])} at p = {_g(at[0])} {dom.p_unit}, "
+                     f"{_WORDS[dom.second]} = {_g(at[1])} {dom.v_unit}, the largest of "
+                     f"{v['points']} sampled points (edges, grid lines and neighbours, cell "
+                     f"interiors, seeded random) of the whole function in {g.fmt} emulation "
+                     f"against the IF97 core; a sampled maximum, not a bound"),
+        "fused": None if v.get("max_error_fused") is None else err(v["max_error_fused"]),
+        "method": (f"{method} on {g.nx} x {g.ny} nodes; pressure: {lay[g.x.layout]}; "
+                   f"second coordinate: {lay[g.y.layout]}"),
+        "coordinate": coord,
+        "storage": (f"{g.storage_bytes} bytes ({g.stored_values()} {ctype} values, of which "
+                    f"the saturation helper {hb} bytes)"),
+        "policy": {"clamp": "inputs outside the range are clamped to it (the second input to "
+                            "its limits at the clamped pressure); NaN gives NaN",
+                   "nan": "inputs outside the range give NaN; NaN gives NaN"}[g.policy],
+        "wrong_side": ("a point on the other side of the saturation line (as the helper sees "
+                       "it) gets the value at the nearest limit, and status WRONG_SIDE"
+                       if g.side else "no saturation inside"),
+    }
+
+
+def grid_c_context(gt, function, name=None):
+    """The dict the ``grid2d`` macro of ``templates/c_grid2d.j2`` renders, for table
+    ``gt`` (:class:`GridTable`) as C function ``function``; private names use ``name`` (the
+    table's name, as the one-input tables do: ``prefix__name``)."""
+    from ..emit.c import table_context
+    from ..emit.common import c_comment, decimal, hex_literal
+    g, dom, fmt = gt.grid, gt.domain, gt.grid.fmt
+    name = name or function
+    priv = (function[:len(function) - len(name) - 1] + "__" + name
+            if function.endswith("_" + name) else function + "__")
+    s = {k: (c_comment(v) if isinstance(v, str) else v) for k, v in grid_summary(gt).items()}
+    sat = None
+    if g.helper is not None:
+        sat = table_context(gt.helper)
+        sat["fn"] = priv + "_sat"
+        sat["priv"] = priv + "_sat"
+        sat["UP"] = sat["fn"].upper()
+    rows = []
+    pl = np.asarray(g.x.lines)
+    for i in range(g.nx):
+        rows.append({"lines": _lits(np.asarray(g.z)[i], fmt, 4),
+                     "note": f"p = {decimal(pl[i], fmt)} {c_comment(dom.p_unit)}"})
+    ctx = {
+        "s": s, "fn": function, "priv": priv, "UP": function.upper(), "fmt": fmt,
+        "ctype": "float" if fmt == "float32" else "double",
+        "method": g.method, "coord": g.coord, "side": g.side, "policy": g.policy,
+        "transform": g.transform, "near_rel": g.near_rel, "far_rel": g.far_rel,
+        "near": _lit(g.near, fmt), "far": _lit(g.far, fmt),
+        "p_lo": _lit(g.x.lo, fmt), "p_hi": _lit(g.x.hi, fmt),
+        "y_lo": _lit(g.y.lo, fmt), "y_hi": _lit(g.y.hi, fmt),
+        "x": _axis_context(g.x, g.method, fmt, dom.p_unit),
+        "y": _axis_context(g.y, g.method, fmt, {"offset": dom.v_unit, "raw": dom.v_unit,
+                                                 "normalized": "1"}[g.coord]),
+        "nx": g.nx, "ny": g.ny, "z_rows": rows, "sat": sat,
+        "one": hex_literal(1.0, fmt), "two": hex_literal(2.0, fmt),
+        "three": hex_literal(3.0, fmt), "half": hex_literal(0.5, fmt),
+        "m_half": hex_literal(-0.5, fmt),
+        "sixth": hex_literal(arith.to_format(1.0 / 6.0, fmt), fmt),
+        "m_sixth": hex_literal(arith.to_format(-1.0 / 6.0, fmt), fmt),
+        "needs_string": g.helper is not None and g.helper.layout == "binade",
+        "needs_math": g.policy == "nan",
+    }
+    return ctx
