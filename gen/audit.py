@@ -1433,6 +1433,20 @@ class Audit:
     replacement: dict = None
     notes: list = field(default_factory=list)
     cell_max: np.ndarray = None   # 2-D: sampled maximum error per cell
+    budget: dict = None           # sensor error budget (gen.sensor.compare), 1-D only
+
+    def add_sensor(self, sensor):
+        """Put the sensor-caused output uncertainty beside this table's error (1-D tables)."""
+        from .sensor import compare, slope_fd
+        if isinstance(self.table, Grid2D):
+            raise AuditError(f"{self.source}:1:1: a sensor budget is for one-input tables")
+        lo, hi = float(self.table.lo), float(self.table.hi)
+        x = np.linspace(lo, hi, 2001)
+        f = self.core()
+        fx = f(x)
+        err = np.asarray(self.table(x), dtype=np.float64) - fx
+        self.budget = compare(sensor, self.spec.inputs[0].unit, x, err,
+                              slope_fd(f, lo, hi, x), fx, self.spec.error_kind)
 
     @property
     def within(self):
@@ -1996,7 +2010,7 @@ def audit_record(audit):
     if t.integer:
         method["int_division"] = spec.int_division
     exhaustive = "exhaustive" in v["counts"]
-    return {
+    rec = {
         "name": audit.name,
         "function": audit.name,
         "quantity": spec.quantity,
@@ -2029,6 +2043,9 @@ def audit_record(audit):
         "candidates": [],
         "notes": audit.notes,
     }
+    if audit.budget is not None:
+        rec["sensor_budget"] = audit.budget
+    return rec
 
 
 def audit_report_json(audit):
@@ -2079,6 +2096,13 @@ def summary_lines(audit):
              f"{v['points']} points"
              + (f"; with fused multiply-add {_err_text(spec, v['max_error_fused'])}"
                 if v.get("max_error_fused") is not None else "") + ")"]
+    b = audit.budget
+    if b is not None:
+        lines.append(
+            f"sensor {b['sensor']}: causes {_err_text(spec, b['output_uncertainty_min'])} to "
+            f"{_err_text(spec, b['output_uncertainty_max'])}; table error / that at most "
+            f"{b['ratio_max']:.3g}" + (" - FLAGGED (above 1/4, a 4:1 ratio; common practice, "
+                                       "no source)" if b["flag"] else " (below 1/4)"))
     return lines
 
 

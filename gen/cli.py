@@ -209,5 +209,9 @@ def state(pressure, temperature, phase, system):
     click.echo("IAPWS-IF97 (R7-97(2012)); transport: R12-08, R15-11; surface tension: R1-76(2014)")
 
 
+from .cli_audit import audit  # noqa: E402  (registered after the group exists)
+
+main.add_command(audit)
+
 if __name__ == "__main__":  # pragma: no cover
     main()

@@ -74,6 +74,27 @@ def _generated(table, options_given):
         sys.exit(1)
 
 
+def _sensor(fixed, of_reading, of_span, span):
+    """The sensor described by the --sensor-* options, or None."""
+    from .sensor import SensorError, parse_sensor
+    d = {k: v for k, v in (("fixed", fixed), ("of_reading", of_reading), ("of_span", of_span))
+         if v is not None}
+    if span:
+        d["span"] = list(span)
+    if not d:
+        return None
+    try:
+        return parse_sensor(d, "")
+    except SensorError as e:
+        import re
+        m = re.match(r"key '([^']+)': (.*)", str(e))
+        key, rest = (m.group(1), m.group(2)) if m else ("sensor", str(e))
+        option = "--" + key.replace("sensor.", "sensor-").replace("_", "-")
+        if option == "--sensor":
+            option = "--sensor-*"
+        raise AuditInputError(f"{option}: {rest}") from None
+
+
 @click.command()
 @click.argument("table", type=click.Path(dir_okay=False))
 @click.option("--quantity", "-q", help="Quantity id of the output, e.g. saturation_temperature.")
@@ -105,11 +126,19 @@ def _generated(table, options_given):
               help="Verification points.")
 @click.option("--no-replacement", is_flag=True,
               help="Skip building the table h2olut would generate instead.")
+@click.option("--sensor-fixed", type=float, help="Sensor uncertainty: fixed part, in the input "
+                                                 "unit (1-D tables).")
+@click.option("--sensor-of-reading", type=float, help="Sensor uncertainty: fraction of the "
+                                                      "reading (0.002 for 0.2 %).")
+@click.option("--sensor-of-span", type=float, help="Sensor uncertainty: fraction of the span "
+                                                   "given by --sensor-span.")
+@click.option("--sensor-span", type=float, nargs=2, help="The sensor's span MIN MAX, input unit.")
 @click.option("--out", "outdir", type=click.Path(file_okay=False),
               help="Folder for report.json, report.md and the error plot (default: print only).")
 def audit(table, quantity, inputs, input_units, output_unit, atmosphere, interpolation,
           arithmetic, scale_in, scale_out, int_division, tolerance_abs, tolerance_rel, used_min,
-          used_max, out_of_range, points, no_replacement, outdir):
+          used_max, out_of_range, points, no_replacement, sensor_fixed, sensor_of_reading,
+          sensor_of_span, sensor_span, outdir):
     """Measure the true error of TABLE (CSV) against the IF97 core, in the firmware's arithmetic.
 
     \b
@@ -143,6 +172,9 @@ def audit(table, quantity, inputs, input_units, output_unit, atmosphere, interpo
                           suggest=not no_replacement,
                           command=_command_line(ctx, table))
         result = audit_file(table, spec)
+        sensor = _sensor(sensor_fixed, sensor_of_reading, sensor_of_span, sensor_span)
+        if sensor is not None:
+            result.add_sensor(sensor)
         files = audit_files(result) if outdir else None
     except AuditError as e:
         raise AuditInputError(str(e)) from None

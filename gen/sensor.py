@@ -16,7 +16,8 @@ Rule used to flag a table: the table's own error should stay below a quarter of 
 sensor-caused output uncertainty everywhere in the range (a 4:1 ratio; common practice, no
 source).
 
-Offers ``Sensor``, ``parse_sensor(d, where)``, ``slope(ts, x)``, ``budget(table, f, x)``.
+Offers ``Sensor``, ``parse_sensor(d, where)``, ``slope(ts, x)``, ``slope_fd(f, lo, hi, x)``,
+``compare(...)`` (the budget record), ``budget(table, f, x)`` for generated tables.
 """
 
 from dataclasses import dataclass
@@ -97,6 +98,14 @@ def parse_sensor(d, where):
     return Sensor(span=span, label=label, **vals)
 
 
+def slope_fd(f, lo, hi, x):
+    """df/dx by a five-point central difference of ``f``, kept inside [lo, hi]."""
+    x = np.asarray(x, dtype=np.float64)
+    h = 1e-6 * (hi - lo)
+    xc = np.clip(x, lo + 2 * h, hi - 2 * h)
+    return (8 * (f(xc + h) - f(xc - h)) - (f(xc + 2 * h) - f(xc - 2 * h))) / (12 * h)
+
+
 def slope(ts, x):
     """df/dx of the table's quantity in the user's units (output unit per input unit)."""
     from .if97 import core
@@ -109,31 +118,21 @@ def slope(ts, x):
     if ts.quantity == "saturation_pressure":
         return core.dpsat_dT(si) * inp.scale / ts.out_scale
     from .build import core_function
-    f = core_function(ts)
-    lo, hi = inp.lo, inp.hi
-    h = 1e-4 * (hi - lo)
-    xc = np.clip(x, lo + 2 * h, hi - 2 * h)
-    return (8 * (f(xc + h) - f(xc - h)) - (f(xc + 2 * h) - f(xc - 2 * h))) / (12 * h)
+    return slope_fd(core_function(ts), inp.lo, inp.hi, x)
 
 
-def budget(table, f, x=None):
-    """Sensor-caused output uncertainty beside the table's own error, across the range."""
-    ts = table.spec
-    pw = table.piecewise
-    sensor = ts.sensor
-    if x is None:
-        x = np.linspace(float(pw.lo), float(pw.hi), 2001)
-    ux = sensor.uncertainty(x)
-    uy = np.abs(slope(ts, x)) * ux
-    fx = f(x)
-    e = np.abs(pw(x).astype(np.float64) - fx)
-    if ts.tol_kind == "rel":
+def compare(sensor, input_unit, x, error, dfdx, fx, kind):
+    """The budget record: sensor-caused output uncertainty |df/dx| u(x) beside the table's
+    own |error| at the same inputs ``x`` (both relative to |f| when ``kind`` is "rel")."""
+    uy = np.abs(dfdx) * sensor.uncertainty(x)
+    e = np.abs(error)
+    if kind == "rel":
         e = e / np.abs(fx)
         uy = uy / np.abs(fx)
     ratio = e / uy
     i = int(np.argmax(ratio))
     return {
-        "sensor": sensor.describe(ts.inputs[0].unit),
+        "sensor": sensor.describe(input_unit),
         "output_uncertainty_min": float(uy.min()),
         "output_uncertainty_max": float(uy.max()),
         "table_error_max": float(e.max()),
@@ -143,6 +142,17 @@ def budget(table, f, x=None):
         "flag": bool(ratio[i] > RATIO_LIMIT),
         "rule": "table error below 1/4 of the sensor-caused output uncertainty everywhere "
                 "(a 4:1 ratio; common practice, no source)",
-        "points": int(x.size),
-        "kind": ts.tol_kind,
+        "points": int(np.size(x)),
+        "kind": kind,
     }
+
+
+def budget(table, f, x=None):
+    """Sensor-caused output uncertainty beside a generated table's own error, across the range."""
+    ts = table.spec
+    pw = table.piecewise
+    if x is None:
+        x = np.linspace(float(pw.lo), float(pw.hi), 2001)
+    fx = f(x)
+    err = pw(x).astype(np.float64) - fx
+    return compare(ts.sensor, ts.inputs[0].unit, x, err, slope(ts, x), fx, ts.tol_kind)

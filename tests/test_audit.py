@@ -497,16 +497,9 @@ pressure = { unit = "bar", min = 1, max = 22 }
 
 
 def schema_for_audits():
-    """The report schema with the changes an audited table needs (the lead applies them to
-    gen/schema/report.schema.json): no tolerance may be given, integer arithmetic, every raw
-    input checked, and extrapolation beyond the span."""
-    s = copy.deepcopy(json.loads(SCHEMA.read_text()))
-    props = s["$defs"]["table"]["properties"]
-    props["tolerance"] = {"oneOf": [{"$ref": "#/$defs/tolerance"}, {"type": "null"}]}
-    props["arithmetic"] = {"enum": ["float32", "float64", "integer"]}
-    props["verification"]["properties"]["method"] = {"enum": ["sampled", "exhaustive"]}
-    props["method"]["properties"]["out_of_range"] = {"enum": ["clamp", "nan", "extrapolate"]}
-    return s
+    """The report schema, which covers audited tables (null tolerance, integer arithmetic,
+    exhaustive checks, extrapolation)."""
+    return json.loads(SCHEMA.read_text())
 
 
 def test_replacement_is_what_the_spec_snippet_builds():
@@ -701,3 +694,35 @@ def test_float32_halfway_double_is_decided_on_the_decimal():
     got = A._round_decimal(np.array([text], dtype=object), np.array([float(text)]), "float32")[0]
     assert got == np.nextafter(np.float32(1), np.float32(2))
     assert np.float32(float(text)) == np.float32(1)           # the double rounding it avoids
+
+
+def test_audit_command_is_registered_with_a_sensor_budget(tmp_path):
+    """`h2olut audit` on the main group; a 0.1 %-of-span transmitter beside a coarse table.
+
+    Check of the budget: the sensor-caused uncertainty is |dT_sat/dp| * 0.02 bar, with the
+    slope recomputed here by a central difference of the core (independent of gen.sensor)."""
+    from click.testing import CliRunner
+    from gen.cli import main
+    from gen.if97 import core
+    p = np.arange(1.0, 21.0)
+    T = core.saturation_temperature(p * 1e5) - 273.15
+    path = tmp_path / "tsat.csv"
+    path.write_text("p,t\n" + "".join(f"{a:g},{b:.3f}\n" for a, b in zip(p, T)))
+    r = CliRunner().invoke(main, ["audit", str(path), "-q", "saturation_temperature",
+                                  "--input-unit", "bar", "--output-unit", "degC",
+                                  "--sensor-of-span", "0.001", "--sensor-span", "0", "20",
+                                  "--out", str(tmp_path / "o")])
+    assert r.exit_code == 0, r.output
+    assert "FLAGGED" in r.output
+    b = json.loads((tmp_path / "o" / "report.json").read_text())["tables"][0]["sensor_budget"]
+    x = np.array([1.0, 20.0])
+    h = 1e-4
+    slope = (core.saturation_temperature((x + h) * 1e5) - core.saturation_temperature((x - h) * 1e5)) / (2 * h)
+    u = np.abs(slope) * 0.02
+    # the budget's difference stays 4e-6 of the span inside the range: 1e-4 relative here
+    assert b["output_uncertainty_max"] == pytest.approx(u[0], rel=1e-4)
+    assert b["output_uncertainty_min"] == pytest.approx(u[1], rel=1e-4)
+    assert b["ratio_max"] > 1 and b["flag"]
+    bad = CliRunner().invoke(main, ["audit", str(path), "-q", "saturation_temperature",
+                                    "--input-unit", "bar", "--sensor-of-span", "0.001"])
+    assert bad.exit_code == 2 and "--sensor-span" in bad.output
