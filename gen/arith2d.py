@@ -22,15 +22,18 @@ vapour-side table, -1 a liquid-side one, 0 no saturation helper), ``coord`` (``r
 y = (v - near) / (far - near)), ``near``/``far`` (limits of the second input; with ``near_rel``/
 ``far_rel`` they are distances from saturation, else absolute values), ``p_lo``/``p_hi``,
 ``y_lo``/``y_hi`` (first and last grid line of y), axes ``x`` and ``y`` (dicts: ``layout``
-``free`` or ``uniform``, ``n`` lines, ``lines``, ``iw`` reciprocal widths, ``den`` reciprocal
-Lagrange denominators, ``x0``/``inv_h`` of a uniform axis), node values ``z`` (nx, ny),
+``free``, ``mapped`` or ``uniform``, ``n`` lines, ``lines``, ``iw`` reciprocal widths, ``den``
+reciprocal Lagrange denominators, ``x0``/``inv_h`` of a uniform axis, ``map``/``b0``/``inv_hb``
+of a mapped one), node values ``z`` (nx, ny),
 ``transform`` (None or ``times_p``: the grid holds value / p) and ``sat`` (keyword arguments of
 :func:`gen.arith.evaluate` for the saturation helper S(p), or None).
 
 Run-time steps, each rounded to the format, no fused multiply-add, in this order:
 NaN in gives NaN out; p is clamped to [p_lo, p_hi]; S = helper(p); the second coordinate y as
 above (absolute limits clamp v first in the offset coordinate) clamped to [y_lo, y_hi]; cell
-index on each axis (binary search on ``free``, ``(int)((c - x0) * inv_h)`` on ``uniform``); then
+index on each axis (binary search on ``free``; ``i = map[(int)((c - b0) * inv_hb)]`` then
+``while (i < n - 2 && c >= lines[i + 1]) i++`` on ``mapped``; ``(int)((c - x0) * inv_h)`` on
+``uniform``); then
 bilinear: ``a = z00 + t*(z10 - z00); b = z01 + t*(z11 - z01); y = a + u*(b - a)``, or bicubic:
 four-node Lagrange weights per axis and the 4x4 sum row by row.
 """
@@ -71,15 +74,30 @@ def _search(c, lines, n):
 def _uniform_cell(c, ax, ft):
     u = (c - ax["x0"]) * ax["inv_h"]
     i = np.minimum(u.astype(np.int64), ax["n"] - 2)
-    i = np.maximum(i, 0)
     return i, u
+
+
+def map_bin(c, b0, inv_hb, nbins):
+    """Bin of a ``mapped`` axis: ``k = (int)((c - b0) * inv_hb)``, at most nbins - 1."""
+    u = (c - b0) * inv_hb
+    return np.minimum(u.astype(np.int64), nbins - 1)
+
+
+def _free_cell(c, ax):
+    """Cell of a free axis (binary search) or of a mapped one: start at the bin's cell and
+    step up while ``c >= lines[i + 1]`` (the same cell; the map never starts past it)."""
+    i = _search(c, ax["lines"], ax["n"])
+    if ax["layout"] == "mapped":
+        k = map_bin(c, ax["b0"], ax["inv_hb"], ax["map"].size)
+        i = np.maximum(ax["map"][k].astype(np.int64), i)
+    return i
 
 
 def cell_index(c, ax, fmt):
     """Cell ``i`` (0..n-2) and local variable ``t`` of run-time coordinates ``c`` on axis ``ax``."""
     ft = _ft(fmt)
-    if ax["layout"] == "free":
-        i = _search(c, ax["lines"], ax["n"])
+    if ax["layout"] in ("free", "mapped"):
+        i = _free_cell(c, ax)
         t = (c - ax["lines"][i]) * ax["iw"][i]
     else:
         i, u = _uniform_cell(c, ax, ft)
@@ -101,9 +119,9 @@ def cubic_weights(c, ax, fmt):
     """
     ft = _ft(fmt)
     n = ax["n"]
-    if ax["layout"] == "free":
+    if ax["layout"] in ("free", "mapped"):
         lines = ax["lines"]
-        i = _search(c, lines, n)
+        i = _free_cell(c, ax)
         s = np.clip(i - 1, 0, n - 4)
         d0 = c - lines[s]
         d1 = c - lines[s + 1]

@@ -56,7 +56,9 @@ from .piecewise import Piecewise1D
 PHASES = ("vapor", "liquid", "supercritical")
 SECOND_INPUTS = ("temperature", "specific_enthalpy", "specific_entropy")
 METHODS = ("bilinear", "bicubic")
-AXIS_LAYOUTS = ("free", "uniform")
+AXIS_LAYOUTS = ("free", "mapped", "uniform")
+#: most bins of a mapped axis
+MAX_BINS = 256
 COORDS = ("raw", "offset", "normalized")
 POLICIES = ("clamp", "nan")
 GOALS = ("smallest", "fastest")
@@ -480,7 +482,9 @@ class GridAxis:
     axis; ``x0 + k / inv_h`` on a ``uniform`` one). ``lo``/``hi``: the axis range the run time
     clamps to. Run-time constants: ``iw[i] = 1 / (lines[i+1] - lines[i])`` (free, bilinear),
     ``den[s, k] = 1 / prod_{m != k} (lines[s+k] - lines[s+m])`` for the stencil s..s+3 (free,
-    bicubic), ``x0``/``inv_h`` (uniform), all in the format."""
+    bicubic), ``x0``/``inv_h`` (uniform), all in the format. A ``mapped`` axis is a free one
+    with ``map[k]``, the cell of the lowest input of bin k = (int)((c - b0) * inv_hb), so that
+    the run time starts there and steps up at most ``steps`` times (no binary search)."""
     layout: str
     lines: np.ndarray
     lo: float
@@ -489,6 +493,10 @@ class GridAxis:
     den: np.ndarray = None
     x0: float = None
     inv_h: float = None
+    map: np.ndarray = None
+    b0: float = None
+    inv_hb: float = None
+    steps: int = 0
 
     def __post_init__(self):
         if self.layout not in AXIS_LAYOUTS:
@@ -503,8 +511,15 @@ class GridAxis:
                              f"{x[j - 1]!r}")
         if self.layout == "uniform" and (self.x0 is None or self.inv_h is None):
             raise ValueError("a uniform axis needs x0 and inv_h")
-        if self.layout == "free" and self.iw is None and self.den is None:
-            raise ValueError("a free axis needs iw (bilinear) or den (bicubic)")
+        if self.layout in ("free", "mapped") and self.iw is None and self.den is None:
+            raise ValueError(f"a {self.layout} axis needs iw (bilinear) or den (bicubic)")
+        if self.layout == "mapped":
+            if self.map is None or self.b0 is None or self.inv_hb is None:
+                raise ValueError("a mapped axis needs map, b0 and inv_hb")
+            m = np.asarray(self.map)
+            if m.ndim != 1 or m.size < 1 or np.any(np.diff(m) < 0) or m[0] != 0 \
+                    or m[-1] > x.size - 2:
+                raise ValueError("map must be non-decreasing cell indices from 0 to at most n-2")
         if self.iw is not None and np.shape(self.iw) != (x.size - 1,):
             raise ValueError(f"iw must have n-1 = {x.size - 1} values, not {np.shape(self.iw)}")
         if self.den is not None and np.shape(self.den) != (x.size - 3, 4):
@@ -515,24 +530,37 @@ class GridAxis:
         return int(np.asarray(self.lines).size)
 
     def __repr__(self):
-        return f"GridAxis({self.layout!r}, n={self.n}, lo={self.lo!r}, hi={self.hi!r})"
+        extra = f", bins={np.asarray(self.map).size}" if self.layout == "mapped" else ""
+        return f"GridAxis({self.layout!r}, n={self.n}, lo={self.lo!r}, hi={self.hi!r}{extra})"
 
     def stored_values(self, method):
-        """Values this axis keeps in tables (the constants of a uniform axis live in code)."""
+        """Format values this axis keeps in tables (the constants of a uniform axis live in
+        code; a mapped axis's bin table is counted in :attr:`map_bytes`)."""
         if self.layout == "uniform":
             return 0
         if method == "bilinear":
             return 2 * (self.n - 1)      # lines[0..n-2] and iw[0..n-2]
         return self.n + 4 * (self.n - 3)  # all lines and four reciprocals per stencil
 
+    @property
+    def map_itemsize(self):
+        return 1 if self.n - 1 <= 256 else 2
+
+    @property
+    def map_bytes(self):
+        return 0 if self.layout != "mapped" else int(np.asarray(self.map).size) * self.map_itemsize
+
     def runtime(self, fmt):
         ft = arith.FORMATS[fmt]
         d = {"layout": self.layout, "n": self.n,
-             "lines": np.asarray(self.lines).astype(ft) if self.layout == "free" else None,
+             "lines": (np.asarray(self.lines).astype(ft) if self.layout != "uniform" else None),
              "iw": None if self.iw is None else np.asarray(self.iw).astype(ft),
              "den": None if self.den is None else np.asarray(self.den).astype(ft),
              "x0": None if self.x0 is None else ft(self.x0),
              "inv_h": None if self.inv_h is None else ft(self.inv_h)}
+        if self.layout == "mapped":
+            d.update({"map": np.asarray(self.map, dtype=np.int64), "b0": ft(self.b0),
+                      "inv_hb": ft(self.inv_hb)})
         return d
 
 
@@ -553,6 +581,61 @@ def free_axis(lines, method, fmt):
             den[:, k] = 1.0 / prod
         den = arith.to_format(den, fmt).astype(np.float64)
     return GridAxis("free", x, float(x[0]), float(x[-1]), iw=iw, den=den)
+
+
+def _order_keys(a, fmt):
+    """Integers in the order of the format's values (for bisection over representable values)."""
+    stype, mask = {"float32": (np.int32, 0x7FFFFFFF), "float64": (np.int64, 0x7FFFFFFFFFFFFFFF)}[fmt]
+    sbits = np.ascontiguousarray(np.asarray(a).astype(arith.FORMATS[fmt])).view(stype)
+    mag = (sbits & stype(mask)).astype(np.int64)
+    return np.where(sbits < 0, -mag, mag)
+
+
+def _from_keys(k, fmt):
+    shift, utype = {"float32": (31, np.uint32), "float64": (63, np.uint64)}[fmt]
+    k = np.asarray(k, dtype=np.int64)
+    mag = np.abs(k).astype(np.uint64)
+    bits = np.where(k < 0, mag | np.uint64(1 << shift), mag).astype(utype)
+    return bits.view(arith.FORMATS[fmt]).astype(np.float64)
+
+
+def mapped_axis(ax, fmt, max_bins=MAX_BINS, bins=None):
+    """The free axis ``ax`` with a bin table: ``bins`` equal bins (default: as many as make
+    every bin no wider than the narrowest cell, at most ``max_bins``). ``map[k]`` is the cell
+    of the lowest format value the run time puts in bin k, found by bisection over the
+    format's values, so the run time's upward steps never overshoot; ``steps`` is the most
+    any input needs."""
+    ft = arith.FORMATS[fmt]
+    lines = np.asarray(ax.lines, dtype=np.float64)
+    lo, hi = float(ft(ax.lo)), float(ft(ax.hi))
+    if bins is None:
+        bins = int(min(max_bins, max(lines.size - 1, math.ceil((hi - lo) / np.min(np.diff(lines))))))
+    b0 = lo
+    inv_hb = float(ft(bins / (hi - b0)))
+
+    def bin_of(c):
+        return arith2d.map_bin(np.asarray(c).astype(ft), ft(b0), ft(inv_hb), bins)
+
+    # lowest format value in [lo, hi] whose bin is at least k, for k = 1..bins-1
+    ks = np.arange(1, bins)
+    L = np.full(ks.shape, int(_order_keys(np.array([lo]), fmt)[0]))
+    H = np.full(ks.shape, int(_order_keys(np.array([hi]), fmt)[0]))
+    while True:
+        open_ = H - L > 1
+        if not open_.any():
+            break
+        mid = (L + H) // 2
+        up = bin_of(_from_keys(mid, fmt)) >= ks
+        H = np.where(open_ & up, mid, H)
+        L = np.where(open_ & ~up, mid, L)
+    starts = np.concatenate([[lo], _from_keys(H, fmt)])
+    n = lines.size
+    cell = lambda c: np.searchsorted(lines[1:n - 1], c, side="right")  # noqa: E731
+    m = cell(starts)
+    ends = np.concatenate([_from_keys(H - 1, fmt), [hi]])
+    steps = int(np.max(cell(ends) - m)) if bins else 0
+    return GridAxis("mapped", lines, ax.lo, ax.hi, iw=ax.iw, den=ax.den, map=m.astype(np.int64),
+                    b0=b0, inv_hb=inv_hb, steps=steps)
 
 
 def uniform_axis(lo, hi, n, fmt):
@@ -609,7 +692,7 @@ class Grid2D:
         for name, ax in (("x", self.x), ("y", self.y)):
             if ax.n < need:
                 raise ValueError(f"{self.method} needs at least {need} lines on {name}, not {ax.n}")
-            if ax.layout == "free":
+            if ax.layout in ("free", "mapped"):
                 if not _is_format(ax.lines, self.fmt):
                     raise ValueError(f"free {name} lines must be {self.fmt} values")
                 if self.method == "bilinear" and ax.iw is None:
@@ -652,18 +735,24 @@ class Grid2D:
         return np.dtype(arith.FORMATS[self.fmt]).itemsize
 
     def grid_values(self):
-        """Values of the grid's own tables (nodes and free-axis constants)."""
+        """Format values of the grid's own tables (nodes and free-axis constants)."""
         return int(np.asarray(self.z).size + self.x.stored_values(self.method)
                    + self.y.stored_values(self.method))
 
     def stored_values(self):
-        """Everything the target keeps in tables for this function, the helper included
-        (range limits and uniform-axis constants are folded into code, not counted)."""
+        """Format values the target keeps in tables for this function, the helper included
+        (range limits and uniform-axis constants are folded into code, not counted; the bin
+        tables of mapped axes are small integers, counted in :attr:`storage_bytes`)."""
         return self.grid_values() + (self.helper.stored_values() if self.helper else 0)
 
     @property
+    def grid_bytes(self):
+        return self.grid_values() * self.itemsize + self.x.map_bytes + self.y.map_bytes
+
+    @property
     def storage_bytes(self):
-        return self.stored_values() * self.itemsize
+        """Bytes of every table of this function: grid, bin tables and helper."""
+        return self.grid_bytes + (self.helper.storage_bytes if self.helper else 0)
 
     @property
     def p_lo(self):
@@ -694,24 +783,24 @@ class Grid2D:
 
 
 def estimated_ops(g):
-    """Rough operations of one call (compares, adds, multiplies, loads; a division counts
-    ``SLOW_OP``), for ranking candidates; the helper's own estimate is included."""
+    """Rough instructions of one call, for ranking candidates: a model of what gcc -O2 makes
+    of the emitted C on x86-64, fitted to callgrind counts of a few grids (within about 20 %
+    there); a division counts ``SLOW_OP``. Not a measurement."""
     from ..build import estimated_ops as ops1
-    n = 2 + 4 + 2                      # NaN tests, clamp p, clamp y
-    if g.helper is not None and (g.coord != "raw"):
+    n = 30                                   # NaN tests, clamps, call and return
+    if g.helper is not None and g.coord != "raw":
         n += ops1(g.helper) + 2
-    n += {"raw": 0, "offset": 1 + 2 * (not g.near_rel) + 2 * (not g.far_rel),
-          "normalized": 4 + SLOW_OP}[g.coord]
+    n += {"raw": 2, "offset": 3 + 2 * (not g.near_rel) + 2 * (not g.far_rel),
+          "normalized": 6 + SLOW_OP}[g.coord]
     for ax in (g.x, g.y):
         if ax.layout == "free":
-            n += 3 * max(1, math.ceil(math.log2(max(ax.n - 1, 2))))
+            n += 11 * max(1, math.ceil(math.log2(max(ax.n - 1, 2)))) + 2
+        elif ax.layout == "mapped":
+            n += 12 + 5 * ax.steps
         else:
-            n += 5
-        if g.method == "bicubic":
-            n += 4 + 14 + (4 if ax.layout == "free" else 0)
-        else:
-            n += 4
-    n += 4 + 6 if g.method == "bilinear" else 16 + 31
+            n += 8
+        n += 3 if g.method == "bilinear" else 18 + 10
+    n += 14 if g.method == "bilinear" else 50
     n += 1 if g.transform else 0
     return int(n)
 
@@ -1534,10 +1623,39 @@ class GridTable:
     helper: object = None        # gen.build.Table of S(p), or None
     notes: list = field(default_factory=list)
     seconds: float = 0.0
+    fits: list = field(default_factory=list, repr=False)   # (Grid2D or None, verification)
 
     def __repr__(self):
         return (f"GridTable({self.domain!r}, {self.grid!r}, max_error="
                 f"{self.verification['max_error']:.3g})")
+
+    def choose(self, goal, max_ops=None):
+        """The same candidates chosen for another ``goal`` (and at most ``max_ops`` estimated
+        operations per call, if given): a new GridTable, no refitting."""
+        from dataclasses import replace
+        ok = [i for i, r in enumerate(self.candidates)
+              if r["met"] and (max_ops is None or r["estimated_ops"] <= max_ops)]
+        if not ok:
+            raise DomainError(f"no candidate meets the tolerance within {max_ops} estimated "
+                              f"operations")
+        best = min(ok, key=lambda i: _key(self.candidates[i], goal))
+        rows = [dict(r, chosen=i == best) for i, r in enumerate(self.candidates)]
+        g, v = self.fits[best]
+        return replace(self, grid=g, verification=v, candidates=rows, goal=goal)
+
+
+def _mapped_variant(g, v, prob, verify_points):
+    """Grid ``g`` with bin tables on both axes, and its verification: the same cells and
+    values by construction, which is checked bit for bit on the verification inputs (a full
+    verification runs instead should any bit differ)."""
+    from dataclasses import replace
+    gm = replace(g, x=mapped_axis(g.x, g.fmt), y=mapped_axis(g.y, g.fmt))
+    P, V, _ = verification_inputs(g, prob, verify_points, v["seed"])
+    a = g(P, V).astype(arith.FORMATS[g.fmt])
+    b = gm(P, V).astype(arith.FORMATS[g.fmt])
+    if np.array_equal(a.view(np.uint8), b.view(np.uint8)):
+        return gm, dict(v, same_bits_as_free=True)
+    return gm, verify_grid(gm, prob, verify_points)
 
 
 def _key(row, goal):
@@ -1597,13 +1715,22 @@ def build_grid(dom, tol_kind, tol, fmt="float32", policy="clamp", goal="smallest
             else:
                 row.update({"nx": g.nx, "ny": g.ny, "stored_values": g.stored_values(),
                             "storage_bytes": g.storage_bytes,
-                            "grid_bytes": g.grid_values() * g.itemsize,
+                            "grid_bytes": g.grid_bytes,
                             "helper_bytes": g.helper.storage_bytes if g.helper else 0,
                             "estimated_ops": estimated_ops(g), "max_error": v["max_error"],
                             "max_error_fused": v.get("max_error_fused"),
                             "points": v["points"], "reversals": v["reversals"]})
             rows.append(row)
             grids.append((g, v))
+            if g is not None and layouts == ("free", "free"):
+                gm, vm = _mapped_variant(g, v, prob, verify_points)
+                mrow = dict(row, x_layout="mapped", y_layout="mapped", seconds=0.0,
+                            storage_bytes=gm.storage_bytes, grid_bytes=gm.grid_bytes,
+                            estimated_ops=estimated_ops(gm),
+                            map_steps=[gm.x.steps, gm.y.steps],
+                            bins=[int(np.asarray(gm.x.map).size), int(np.asarray(gm.y.map).size)])
+                rows.append(mrow)
+                grids.append((gm, vm))
     met = [i for i, r in enumerate(rows) if r["met"]]
     if not met:
         why = "; ".join(f"{r['method']} {r['x_layout']} {r['coord']}: {r.get('why')}" for r in rows)
@@ -1615,7 +1742,7 @@ def build_grid(dom, tol_kind, tol, fmt="float32", policy="clamp", goal="smallest
     g, v = grids[best]
     return GridTable(domain=dom, grid=g, verification=v, candidates=rows, tol_kind=tol_kind,
                      tol=float(tol), goal=goal, floor=floor, helper=helper, notes=notes,
-                     seconds=time.perf_counter() - t0)
+                     seconds=time.perf_counter() - t0, fits=grids)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -1637,6 +1764,14 @@ def _axis_context(ax, method, fmt, unit):
     from ..emit.common import c_comment
     d = {"layout": ax.layout, "n": ax.n, "lo": _lit(ax.lo, fmt), "hi": _lit(ax.hi, fmt),
          "unit": c_comment(unit)}
+    if ax.layout == "mapped":
+        d["nbins"] = int(np.asarray(ax.map).size)
+        d["b0"] = _lit(ax.b0, fmt)
+        d["inv_hb"] = _lit(ax.inv_hb, fmt)
+        d["mtype"] = "uint8_t" if ax.map_itemsize == 1 else "uint16_t"
+        m = [f"{int(k)}u" for k in np.asarray(ax.map)]
+        d["map"] = [", ".join(m[i:i + 16]) for i in range(0, len(m), 16)]
+        d["steps"] = ax.steps
     if ax.layout == "uniform":
         d["x0"] = _lit(ax.x0, fmt)
         d["inv_h"] = _lit(ax.inv_h, fmt)
@@ -1671,7 +1806,8 @@ def grid_summary(gt):
     method = {"bilinear": "bilinear interpolation of node values",
               "bicubic": "four-node Lagrange interpolation per axis over 4x4 node values "
                          "(continuous, not smooth, across cell edges)"}[g.method]
-    lay = {"free": "free lines, binary search", "uniform": "equal spacing, index computed"}
+    lay = {"free": "free lines, binary search", "uniform": "equal spacing, index computed",
+           "mapped": "free lines, cell from a bin table and at most a few steps"}
     ctype = "float" if g.fmt == "float32" else "double"
     hb = g.helper.storage_bytes if g.helper is not None else 0
     return {
