@@ -391,7 +391,7 @@ def check_domain(dom, tol_kind=None, tol=None):
                 raise DomainError(
                     f"the range crosses {name} near (p = {_pt(dom, p_in[k])}, T = "
                     f"{_vt(dom, t_in[k])}), where the core's {dom.quantity.replace('_', ' ')} "
-                    f"steps by {step[k]:.3g} {dom.out_unit} ({rel[k] / tol:.2g} of the "
+                    f"steps by {step[k]:.3g} {dom.out_unit} ({rel[k] / tol:.2g} times the "
                     f"tolerance); split the range there")
             notes.append(f"crosses {name}; the core steps by at most {step[k]:.3g} "
                          f"{dom.out_unit} there, which the grid interpolates across")
@@ -474,7 +474,7 @@ def _is_format(a, fmt):
     return bool(np.all(arith.to_format(a, fmt).astype(np.float64) == a))
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class GridAxis:
     """One axis of a rectilinear grid.
 
@@ -648,7 +648,7 @@ def uniform_axis(lo, hi, n, fmt):
     return GridAxis("uniform", lines, x0, hi, x0=x0, inv_h=inv_h)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class Grid2D:
     """A fitted two-input table exactly as the target stores and evaluates it.
 
