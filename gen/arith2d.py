@@ -17,7 +17,8 @@ Offers
 
 ``tab`` is a plain dict of target-format numbers (see ``gen.fit.grid2d.Grid2D.runtime``):
 ``fmt``, ``method`` (``bilinear``/``bicubic``), ``policy`` (``clamp``/``nan``), ``side`` (+1 a
-vapour-side table, -1 a liquid-side one, 0 no saturation helper), ``coord`` (``raw``: y = v;
+vapour-side table, -1 a liquid-side one, 0 no saturation helper), ``coord`` (``raw``: y = v,
+clamped first to the limits at this p on a vapour or liquid table;
 ``offset``: y = v - S on the vapour side, S - v on the liquid side; ``normalized``:
 y = (v - near) / (far - near)), ``near``/``far`` (limits of the second input; with ``near_rel``/
 ``far_rel`` they are distances from saturation, else absolute values), ``p_lo``/``p_hi``,
@@ -174,6 +175,10 @@ def coordinates2d(p, v, tab):
     y_lo, y_hi = ft(tab["y_lo"]), ft(tab["y_hi"])
     if coord == "raw":
         y = vf
+        if side != 0:
+            near, far = _limits(S, tab, ft)
+            low, high = (far, near) if side < 0 else (near, far)
+            y = np.where(vf < low, low, np.where(vf > high, high, vf))
     elif coord == "offset":
         vc = vf
         if side > 0:

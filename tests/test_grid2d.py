@@ -93,7 +93,9 @@ def test_steam_density_within_tolerance_at_fresh_points(steam):
 
 def test_water_density_within_tolerance_at_fresh_points(water):
     g = water.grid
-    assert g.side == -1 and g.coord == "offset"
+    assert g.side == -1
+    # the subcooling grid is among the candidates and within tolerance too
+    assert any(r["met"] and r["coord"] == "offset" for r in water.candidates)
     p, t = fresh_points(water, 20_000, 777)
     rho = Q.evaluate("density", pressure=p * 1e6, temperature=t + 273.15)
     assert rel_error(g(p, t), rho).max() <= 2e-4, "against our IF97 core"

@@ -181,8 +181,12 @@ class Domain2D:
 
     def sat(self, p):
         """Exact saturation value of the second input at pressure ``p`` (user units)."""
-        si = Q.evaluate(self.sat_quantity, pressure=self.p_si(p), mask=True)
-        return self.v_user(si)
+        if np.size(p) == 0:
+            return np.zeros(np.shape(p))
+        p = np.asarray(p, dtype=np.float64)
+        u, inv = np.unique(p, return_inverse=True)
+        si = Q.evaluate(self.sat_quantity, pressure=self.p_si(u), mask=True)
+        return self.v_user(np.asarray(si)[inv.reshape(p.shape)])
 
     def limits(self, p):
         """(near, far) values of the second input at pressure ``p``, exact, user units."""
@@ -196,11 +200,14 @@ class Domain2D:
     def core(self, p, v):
         """The core's value at (p, v) in the output unit; NaN where the core has none.
 
-        Points within round-off of saturation are moved a hair (2e-13 relative) to the
-        domain's side, so that the core does not take them for the other phase."""
+        Temperatures within round-off of saturation are moved a hair (2e-13 relative) to the
+        domain's side, so that the core does not take them for the other phase (the backward
+        functions already put a saturated h or s on the side asked for)."""
+        if np.size(p) == 0:
+            return np.zeros(np.shape(p))
         psi = self.p_si(p)
         vsi = self.v_si(v)
-        if self.side:
+        if self.side and self.second == "temperature":
             ssi = self.v_si(self.sat(p))
             hair = np.abs(ssi) * 2e-13 + 1e-12
             if self.side > 0:
@@ -214,6 +221,41 @@ class Domain2D:
         else:
             y = Q.evaluate(self.quantity, mask=True, **kw)
         return (np.asarray(y, dtype=np.float64) - self.out_offset) / self.out_scale
+
+
+def extension(dom, p, v):
+    """The domain phase's own IF97 equation at (p, v), continued past saturation (region 2
+    for vapour, region 1 for liquid; backward temperature through that region's backward
+    equation refined on it), in the output unit. Near saturation it is the metastable state;
+    far from it the continued equation is not physical and may be wild (such nodes are never
+    used by a cell of the domain, see :meth:`Problem.nodes`)."""
+    from ..if97 import core, region1, region2
+    reg = region2 if dom.side > 0 else region1
+    psi, vsi = dom.p_si(p), dom.v_si(v)
+    with np.errstate(all="ignore"):
+        if dom.second == "temperature":
+            d = reg.props(psi, vsi)
+            if dom.quantity == "dynamic_viscosity":
+                y = core.transport_viscosity(d["rho"], vsi)
+            elif dom.quantity == "thermal_conductivity":
+                y = core.transport_conductivity(d["rho"], vsi, d["cp"], d["cv"], d["drhodp"])
+            else:
+                y = d[Q._PROP_KEY[dom.quantity]]
+        elif dom.second == "specific_enthalpy":
+            y = reg.temperature_ph(psi, vsi)
+        else:
+            y = reg.temperature_ps(psi, vsi)
+    return (np.asarray(y, dtype=np.float64) - dom.out_offset) / dom.out_scale
+
+
+def extension_applies(dom):
+    """Whether the whole domain lies in the region :func:`extension` continues (the core and
+    the continued equation agree to 1e-11 on a sampling of the domain)."""
+    if not dom.side or (dom.quantity == "temperature" and dom.second == "temperature"):
+        return False
+    P, V = domain_grid(dom, 33, 33)
+    a, b = dom.core(P, V), extension(dom, P, V)
+    return bool(np.all(np.abs(a - b) <= 1e-11 * np.abs(a) + 1e-300))
 
 
 def make_domain(quantity, phase, p_lo, p_hi, near, far, *, near_rel, far_rel,
@@ -788,9 +830,9 @@ def estimated_ops(g):
     there); a division counts ``SLOW_OP``. Not a measurement."""
     from ..build import estimated_ops as ops1
     n = 30                                   # NaN tests, clamps, call and return
-    if g.helper is not None and g.coord != "raw":
+    if g.helper is not None and (g.coord != "raw" or g.near_rel or g.far_rel):
         n += ops1(g.helper) + 2
-    n += {"raw": 2, "offset": 3 + 2 * (not g.near_rel) + 2 * (not g.far_rel),
+    n += {"raw": 2 + 6 * (g.side != 0), "offset": 3 + 2 * (not g.near_rel) + 2 * (not g.far_rel),
           "normalized": 6 + SLOW_OP}[g.coord]
     for ax in (g.x, g.y):
         if ax.layout == "free":
@@ -873,12 +915,34 @@ class Problem:
         return np.abs(fy) if self.tol_kind == "rel" else np.ones_like(fy)
 
     def coords(self):
+        """Second coordinates worth trying: ``raw`` where the limits are absolute, or where
+        the phase's own equation continues past saturation (a box in the raw inputs, with
+        nodes beyond the domain from that equation); ``offset`` and ``normalized`` from
+        saturation otherwise (``normalized`` only for one absolute and one relative limit)."""
         d = self.dom
         if d.side == 0 or not (d.near_rel or d.far_rel):
             return ["raw"]
-        if d.near_rel and d.far_rel:
-            return ["offset"]
-        return ["normalized", "offset"]
+        out = ["offset"] if d.near_rel and d.far_rel else ["normalized", "offset"]
+        if self.continued():
+            out.append("raw")
+        return out
+
+    def continued(self):
+        """Whether ``raw`` nodes beyond the domain take the phase's continued equation."""
+        d = self.dom
+        if not (d.side and (d.near_rel or d.far_rel)):
+            return False
+        if "continued" not in self._cache:
+            self._cache["continued"] = extension_applies(d)
+        return self._cache["continued"]
+
+    def node_f(self, coord):
+        """The function node values come from: the core, or for ``raw`` coordinates of a
+        phase domain with a relative limit the phase's continued equation (equal to the core
+        inside the domain)."""
+        if coord == "raw" and self.continued():
+            return lambda p, v: extension(self.dom, p, v)
+        return self.f
 
     def _pdense(self):
         return np.linspace(self.dom.p_lo, self.dom.p_hi, 1025)
@@ -892,6 +956,9 @@ class Problem:
         dn = lambda a: float(np.nextafter(ft(a), ft(-np.inf))) if float(ft(a)) > a else float(ft(a))  # noqa: E731
         if coord == "normalized":
             r = (0.0, 1.0)
+        elif coord == "raw" and (d.near_rel or d.far_rel):
+            near, far = d.limits(self._pdense())
+            r = (dn(float(np.min(np.minimum(near, far)))), up(float(np.max(np.maximum(near, far)))))
         elif coord == "raw":
             lo, hi = sorted((float(d.near), float(d.far)))
             r = (up(lo), dn(hi))
@@ -931,6 +998,11 @@ class Problem:
         """Whether grid coordinates (p, y) belong to the domain (all, but in ``offset``
         coordinates with an absolute limit)."""
         d = self.dom
+        if coord == "raw" and (d.near_rel or d.far_rel):
+            near, far = d.limits(p)
+            lo, hi = np.minimum(near, far), np.maximum(near, far)
+            slack = 1e-9 * (np.abs(lo) + np.abs(hi) + 1.0)
+            return (y >= lo - slack) & (y <= hi + slack)
         if coord != "offset" or (d.near_rel and d.far_rel):
             return np.ones(np.shape(p), dtype=bool)
         near, far = d.limits(p)
@@ -1020,11 +1092,44 @@ class Problem:
         P, Y = P[keep], Y[keep]
         return self.pointset(coord, P, self.v_of(coord, P, Y))
 
-    def nodes(self, coord, xs, ys):
-        """Core values (float64) at the grid nodes, shape (len(xs), len(ys))."""
+    def nodes(self, coord, xs, ys, method="bilinear"):
+        """Node values (float64), shape (len(xs), len(ys)). On a grid that reaches beyond the
+        domain (``raw`` with a relative limit, ``offset`` with an absolute one), nodes that no
+        cell of the domain uses (``method``'s stencils) take the value of the nearest used
+        node on their pressure line, so that nothing there is wild or undefined."""
         P = np.repeat(xs, ys.size)
         Y = np.tile(ys, xs.size)
-        return self.f(P, self.v_of(coord, P, Y)).reshape(xs.size, ys.size)
+        Z = self.node_f(coord)(P, self.v_of(coord, P, Y)).reshape(xs.size, ys.size)
+        if coord == "raw" and self.continued():
+            need = self.needed(coord, xs, ys, method)
+            Z = _fill(Z, need)
+        return Z
+
+    def needed(self, coord, xs, ys, method):
+        """Mask (nx, ny) of the nodes some cell meeting the domain uses (with a margin of half
+        a percent of the y range around the domain's limits)."""
+        d = self.dom
+        nx, ny = xs.size, ys.size
+        s = np.linspace(0.0, 1.0, 9)
+        pp = (xs[:-1, None] + np.diff(xs)[:, None] * s[None, :])
+        near, far = d.limits(pp.ravel())
+        lo = np.minimum(near, far).reshape(pp.shape).min(axis=1)
+        hi = np.maximum(near, far).reshape(pp.shape).max(axis=1)
+        m = 0.005 * (ys[-1] - ys[0])
+        cell = (ys[None, 1:] >= lo[:, None] - m) & (ys[None, :-1] <= hi[:, None] + m)
+        need = np.zeros((nx, ny), dtype=bool)
+        ii, jj = np.nonzero(cell)
+        if method == "bilinear":
+            for a in (0, 1):
+                for b in (0, 1):
+                    need[ii + a, jj + b] = True
+        else:
+            sx = np.clip(ii - 1, 0, nx - 4)
+            sy = np.clip(jj - 1, 0, ny - 4)
+            for a in range(4):
+                for b in range(4):
+                    need[sx + a, sy + b] = True
+        return need
 
     # reference sampling ----------------------------------------------------------------------
     def reference(self, coord, n=97):
@@ -1042,7 +1147,7 @@ class Problem:
             yr = np.linspace(y_lo, y_hi, n)
             P = np.repeat(xr, n)
             Y = np.tile(yr, n)
-            F = self.f(P, self.v_of(coord, P, Y))
+            F = self.node_f(coord)(P, self.v_of(coord, P, Y))
             F = np.where(self.reachable(coord, P, Y), F, np.nan).reshape(n, n)
             self._cache[k] = (xr, yr, F)
         return self._cache[k]
@@ -1095,6 +1200,21 @@ class Problem:
                 e = e + 0.5 * fv * ulp(self.dom.sat(P))
             self._cache["floor"] = float(np.nanmax(e / self.scale(F)))
         return self._cache["floor"]
+
+
+def _fill(Z, need):
+    """Z with every node outside ``need`` set to the nearest needed node of its row."""
+    Z = Z.copy()
+    j = np.arange(Z.shape[1])
+    for i in range(Z.shape[0]):
+        k = np.nonzero(need[i])[0]
+        if k.size == 0:
+            continue
+        near = k[np.clip(np.searchsorted(k, j), 0, k.size - 1)]
+        left = k[np.clip(np.searchsorted(k, j) - 1, 0, k.size - 1)]
+        pick = np.where(np.abs(j - left) <= np.abs(near - j), left, near)
+        Z[i] = np.where(need[i], Z[i], Z[i, pick])
+    return Z
 
 
 def _derivative(F, x, k, axis):
@@ -1205,10 +1325,11 @@ def _directions(prob, coord, method, xs, ys, pts):
     m = kx.shape[1]
     Px = xs[kx]
     Vx = prob.v_of(coord, Px.ravel(), np.repeat(py, m)).reshape(Px.shape)
-    Fx = prob.f(Px.ravel(), Vx.ravel()).reshape(Px.shape)
+    nf = prob.node_f(coord)
+    Fx = nf(Px.ravel(), Vx.ravel()).reshape(Px.shape)
     Yy = ys[ky]
     Py = np.repeat(px, m).reshape(Yy.shape)
-    Fy = prob.f(Py.ravel(), prob.v_of(coord, Py.ravel(), Yy.ravel())).reshape(Yy.shape)
+    Fy = nf(Py.ravel(), prob.v_of(coord, Py.ravel(), Yy.ravel())).reshape(Yy.shape)
     truth = pts.truth[w]
     sc = pts.sc[w]
     ex = np.abs(_interp1(Px, Fx, px, method) - truth) / sc
@@ -1252,7 +1373,7 @@ def _fit_free(prob, coord, method, target):
     xs = _equidistribute(xr, _profile(gx, 0), k, c, target, prob.p_lo, prob.p_hi, fmt, nmin)
     ys = _equidistribute(yr, _profile(gy, 1), k, c, target, y_lo, y_hi, fmt, nmin)
     pts = prob.check_set(coord)
-    Z = prob.nodes(coord, xs, ys)
+    Z = prob.nodes(coord, xs, ys, method)
     for _ in range(MAX_ROUNDS):
         if not np.all(np.isfinite(Z)):
             return "the core has no value at some grid nodes"
@@ -1273,7 +1394,7 @@ def _fit_free(prob, coord, method, target):
         if xs2.size > MAX_LINES or ys2.size > MAX_LINES or xs2.size * ys2.size > MAX_NODES:
             return f"more than {MAX_NODES} nodes or {MAX_LINES} lines per axis would be needed"
         xs, ys = xs2, ys2
-        Z = prob.nodes(coord, xs, ys)
+        Z = prob.nodes(coord, xs, ys, method)
     else:
         return f"tolerance not met after {MAX_ROUNDS} refinement rounds"
     xs, ys, Z = _remove_lines(prob, coord, method, xs, ys, Z, target, pts)
@@ -1295,7 +1416,11 @@ def _remove_lines(prob, coord, method, xs, ys, Z, target, pts):
                 if j >= lines.size - 1 or lines.size <= nmin:
                     break
                 new = np.delete(lines, j)
-                Zn = np.delete(Z, j, axis=axis)
+                if coord == "raw" and prob.continued():
+                    Zn = prob.nodes(coord, new if axis == 0 else xs, ys if axis == 0 else new,
+                                    method)
+                else:
+                    Zn = np.delete(Z, j, axis=axis)
                 win = (lines[max(j - reach, 0)], lines[min(j + reach, lines.size - 1)])
                 if axis == 0:
                     xa, ya = free_axis(new, method, fmt), free_axis(ys, method, fmt)
@@ -1342,7 +1467,7 @@ def _fit_uniform(prob, coord, method, target):
             else:
                 xa = uniform_axis(prob.p_lo, prob.p_hi, nx, fmt)
                 ya = uniform_axis(y_lo, y_hi, ny, fmt)
-                Z = prob.nodes(coord, xa.lines, ya.lines)
+                Z = prob.nodes(coord, xa.lines, ya.lines, method)
                 if not np.all(np.isfinite(Z)):
                     cache[key] = (False, None)
                     cache["no_value"] = True
@@ -1510,13 +1635,25 @@ def verification_inputs(g, prob, n, seed):
     Pc, Yc = Pc[keep], Yc[keep]
     parts.append((Pc, prob.v_of(coord, Pc, Yc)))
     counts["cell_interior"] = int(Pc.size)
-    nr = max(n - sum(counts.values()), n // 2)
+    nr = n - n // 2
     pr, vr = prob.random_inputs(nr, seed ^ 0x5EED)
     parts.append((pr, vr))
     counts["random"] = int(pr.size)
     P = np.concatenate([a for a, _ in parts])
     V = np.concatenate([b for _, b in parts])
     return P, V, counts
+
+
+def _truth(prob, P, V, counts, seed):
+    """The core at the verification inputs; the edge and random parts, the same for every
+    candidate of a problem, are evaluated once."""
+    ne, nr = counts["edges"], counts["random"]
+    key = ("truth", ne, nr, seed)
+    if key not in prob._cache:
+        prob._cache[key] = (prob.f(P[:ne], V[:ne]), prob.f(P[-nr:], V[-nr:]))
+    te, tr = prob._cache[key]
+    mid = prob.f(P[ne:P.size - nr], V[ne:P.size - nr])
+    return np.concatenate([te, mid, tr])
 
 
 def _monotone_sign(a, axis):
@@ -1529,9 +1666,8 @@ def _monotone_sign(a, axis):
     return 0
 
 
-def order_reversals(g, prob, lines=32, m=2048):
-    """Reversals of order in the emulated function along sweeps in each input, where the core
-    is monotone in that input over the domain: (along p at fixed v, along v at fixed p)."""
+def _sweeps(prob, lines, m):
+    """Sweep inputs of :func:`order_reversals` and the core along them (shared by candidates)."""
     d = prob.dom
     ps = np.linspace(prob.p_lo, prob.p_hi, lines)
     near, far = d.limits(ps)
@@ -1539,26 +1675,43 @@ def order_reversals(g, prob, lines=32, m=2048):
     V = near[:, None] + vv[None, :] * (far - near)[:, None]
     P = np.repeat(ps[:, None], m, axis=1)
     f_v = prob.f(P.ravel(), V.ravel()).reshape(P.shape)
+    pn, pf_ = d.limits(np.linspace(prob.p_lo, prob.p_hi, 65))
+    vlo, vhi = float(np.min(np.minimum(pn, pf_))), float(np.max(np.maximum(pn, pf_)))
+    pp = np.linspace(prob.p_lo, prob.p_hi, m)
+    nr, fr = d.limits(pp)
+    lo_v, hi_v = np.minimum(nr, fr), np.maximum(nr, fr)
+    sp_all = []
+    for v in np.linspace(vlo, vhi, lines):
+        inside = (v >= lo_v) & (v <= hi_v)
+        if inside.sum() >= 3:
+            p_in = pp[inside]
+            sp_all.append((p_in, v, None))
+    if sp_all:
+        pa = np.concatenate([a for a, _, _ in sp_all])
+        va = np.concatenate([np.full(a.shape, v) for a, v, _ in sp_all])
+        fa = prob.f(pa, va)
+        out, k = [], 0
+        for a, v, _ in sp_all:
+            out.append((a, v, fa[k:k + a.size]))
+            k += a.size
+        sp_all = out
+    return P, V, f_v, near, far, sp_all
+
+
+def order_reversals(g, prob, lines=24, m=1024):
+    """Reversals of order in the emulated function along sweeps in each input, where the core
+    is monotone in that input over the domain: (along p at fixed v, along v at fixed p)."""
+    d = prob.dom
+    key = ("sweeps", lines, m)
+    if key not in prob._cache:
+        prob._cache[key] = _sweeps(prob, lines, m)
+    P, V, f_v, near, far, sp_all = prob._cache[key]
     sv = _monotone_sign(f_v, 1) * (1 if np.all(far >= near) else -1)
     rev_v = 0
     if sv:
         y = g(P.ravel(), V.ravel()).astype(np.float64).reshape(P.shape)
         rev_v = int(np.sum(np.diff(y, axis=1) * sv * np.sign(far - near)[:, None] < 0))
-    pn, pf_ = d.limits(np.linspace(prob.p_lo, prob.p_hi, 65))
-    vlo, vhi = float(np.min(np.minimum(pn, pf_))), float(np.max(np.maximum(pn, pf_)))
-    vs = np.linspace(vlo, vhi, lines)
-    pp = np.linspace(prob.p_lo, prob.p_hi, m)
-    nr, fr = d.limits(pp)
-    lo_v, hi_v = np.minimum(nr, fr), np.maximum(nr, fr)
     rev_p = 0
-    sp_all = []
-    for v in vs:
-        inside = (v >= lo_v) & (v <= hi_v)
-        if inside.sum() < 3:
-            continue
-        p_in = pp[inside]
-        fv = prob.f(p_in, np.full(p_in.shape, v))
-        sp_all.append((p_in, v, fv))
     signs = {_monotone_sign(fv, 0) for _, _, fv in sp_all}
     sp = signs.pop() if len(signs) == 1 else 0
     if sp:
@@ -1574,7 +1727,7 @@ def verify_grid(g, prob, n=100_000, seed=None):
     seed = _seed(prob.key, "verify") if seed is None else int(seed)
     P, V, counts = verification_inputs(g, prob, n, seed)
     kind = np.repeat(np.arange(len(counts)), list(counts.values()))
-    truth = prob.f(P, V)
+    truth = _truth(prob, P, V, counts, seed)
     ok = np.isfinite(truth)
     P, V, truth, kind = P[ok], V[ok], truth[ok], kind[ok]
     sc = prob.scale(truth)
