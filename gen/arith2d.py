@@ -44,8 +44,9 @@ import numpy as np
 try:
     from . import arith as _one
 except ImportError:
-    import sys
-    _one = sys.modules[__name__]
+    # inside a generated module: the one-input run time was defined just above, in this file
+    import types
+    _one = types.SimpleNamespace(**globals())
 
 #: status code: the point is on the other side of the saturation line (as the helper sees it)
 WRONG_SIDE = 4

@@ -58,6 +58,41 @@ class Table:
         return self.spec.name
 
 
+@dataclass
+class Table2D:
+    """One two-input table: the spec and the chosen, verified grid (gen.fit.grid2d.GridTable)."""
+    spec: object
+    gt: object
+
+    @property
+    def name(self):
+        return self.spec.name
+
+    @property
+    def verification(self):
+        return self.gt.verification
+
+    @property
+    def candidates(self):
+        return self.gt.candidates
+
+    @property
+    def notes(self):
+        return self.gt.notes
+
+
+def build_grid_table(ts, progress=None):
+    """Fit and verify a two-input table spec."""
+    from .fit.grid2d import DomainError, build_grid
+    try:
+        gt = build_grid(ts.domain, ts.tol_kind, ts.tol_value, fmt=ts.arithmetic,
+                        policy=ts.policy, goal=ts.goal, verify_points=ts.verify_points,
+                        progress=(lambda m: progress(f"{ts.name}: {m}")) if progress else None)
+    except DomainError as e:
+        raise BuildError(f"table {ts.name!r}: {e}") from None
+    return Table2D(spec=ts, gt=gt)
+
+
 def core_function(ts):
     """f(x) in the user's units: the core at the SI image of ``x``, converted to the output unit."""
     inp = ts.inputs[0]
@@ -213,6 +248,8 @@ def _place(layout, f, scale, lo, hi, d, budget, fmt, monotone, coord, breaks, po
 
 def build_table(ts, progress=None):
     """Fit and verify one table spec; raises :class:`BuildError` when it cannot be met."""
+    if ts.domain is not None:
+        return build_grid_table(ts, progress)
     inp = ts.inputs[0]
     fmt = ts.arithmetic
     ft = arith.FORMATS[fmt]

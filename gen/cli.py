@@ -98,6 +98,14 @@ def build(spec, outdir):
         raise InputError(f"{outdir}: cannot write the outputs ({e.strerror})") from None
     for t in tables:
         ts, v = t.spec, t.verification
+        if getattr(t, "gt", None) is not None:
+            g = t.gt.grid
+            err = (f"{v['max_error']:.3g} {ts.output_unit} (tolerance {ts.tol_value:g})"
+                   if ts.tol_kind == "abs" else
+                   f"{v['max_error'] * 100:.3g} % (tolerance {ts.tol_value * 100:g} %)")
+            click.echo(f"{ts.function}: {g.nx} x {g.ny} {g.method} grid, {g.storage_bytes} "
+                       f"bytes, max error {err} on {v['points']} points")
+            continue
         if ts.tol_kind == "abs":
             err = f"{v['max_error']:.3g} {ts.output_unit} (tolerance {ts.tol_value:g})"
         else:

@@ -14,7 +14,7 @@ from .build import build_table, core_function, error_scale
 from .emit.c import render_c
 from .emit.common import generator_digest
 from .emit.python import render_python
-from .report import error_plot, report_json, report_markdown
+from .report import error_map, error_plot, report_json, report_markdown
 
 
 def build_spec(spec, progress=None):
@@ -30,7 +30,7 @@ def build_spec(spec, progress=None):
 def render_outputs(spec, tables):
     """Every output file's bytes. Same spec and generator version give the same bytes."""
     base = spec.name
-    refs = {t.name: core_function(t.spec) for t in tables}
+    refs = {t.name: core_function(t.spec) for t in tables if getattr(t, "gt", None) is None}
     files = {}
     for name, text in render_c(spec, tables, base, refs).items():
         files[name] = text.encode("utf-8")
@@ -39,7 +39,10 @@ def render_outputs(spec, tables):
     plots = {}
     for t in tables:
         png = f"{base}_{t.name}_error.png"
-        files[png] = error_plot(t, refs[t.name], error_scale(t.spec.tol_kind))
+        if getattr(t, "gt", None) is not None:
+            files[png] = error_map(t)
+        else:
+            files[png] = error_plot(t, refs[t.name], error_scale(t.spec.tol_kind))
         plots[t.name] = png
     files["report.json"] = report_json(spec, tables).encode("utf-8")
     files["report.md"] = report_markdown(spec, tables, plots).encode("utf-8")

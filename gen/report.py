@@ -70,6 +70,77 @@ def table_record(table):
     return rec
 
 
+def _is_two(t):
+    return getattr(t, "gt", None) is not None
+
+
+def table_record_2d(table):
+    """The per-table record of a two-input table (same keys as one-input ones)."""
+    from .fit.grid2d import describe_domain
+    ts, gt = table.spec, table.gt
+    dom, g, v = gt.domain, gt.grid, gt.verification
+    pl = np.linspace(dom.p_lo, dom.p_hi, 257)
+    near, far = dom.limits(pl)
+    vmin, vmax = float(np.min(np.minimum(near, far))), float(np.max(np.maximum(near, far)))
+    second = {"quantity": ts.inputs[1].quantity, "unit": dom.v_unit, "min": vmin, "max": vmax}
+    for k, val, rel in (("near", dom.near, dom.near_rel), ("far", dom.far, dom.far_rel)):
+        second[f"{k}_limit"] = {"value": float(val), "from_saturation": bool(rel)}
+    rec = {
+        "name": ts.name,
+        "function": ts.function,
+        "quantity": ts.quantity,
+        "description": ts.description,
+        "inputs": [{"quantity": "pressure", "unit": dom.p_unit, "min": dom.p_lo,
+                    "max": dom.p_hi}, second],
+        "output": {"quantity": ts.quantity, "unit": dom.out_unit},
+        "arithmetic": g.fmt,
+        "tolerance": _tol(ts),
+        "storage_bytes": g.storage_bytes,
+        "max_error": {ts.tol_kind: v["max_error"]},
+        "max_error_at": [float(v["at"][0]), float(v["at"][1])],
+        "verification_points": v["points"],
+        "verification": {
+            "method": "sampled",
+            "reference": "h2olut IF97 core (float64)",
+            "counts": v["counts"],
+            "seed": v["seed"],
+            "rms_error": v["rms_error"],
+            "max_error_with_fma": v.get("max_error_fused"),
+            "max_by_kind": v.get("max_by_kind"),
+            "order_reversals": v.get("reversals"),
+            "format_floor": gt.floor,
+        },
+        "method": {
+            "kind": "grid",
+            "layout": f"{g.x.layout}/{g.y.layout}",
+            "interpolation": g.method,
+            "coordinate": g.coord,
+            "phase": dom.phase,
+            "domain": describe_domain(dom),
+            "nx": g.nx,
+            "ny": g.ny,
+            "stored_values": g.stored_values(),
+            "saturation_helper_bytes": 0 if g.helper is None else g.helper.storage_bytes,
+            "out_of_range": g.policy,
+            "goal": gt.goal,
+        },
+        "candidates": _clean(gt.candidates),
+        "notes": list(gt.notes),
+    }
+    return rec
+
+
+def _clean(rows):
+    """Candidate rows as plain JSON values, without timings (the report must not depend on
+    how fast the machine was)."""
+    out = []
+    for r in rows:
+        out.append({k: (float(v) if isinstance(v, (np.floating,)) else
+                        int(v) if isinstance(v, np.integer) else v) for k, v in r.items()
+                    if k != "seconds"})
+    return out
+
+
 def report_json(spec, tables):
     doc = {
         "schema": SCHEMA_VERSION,
@@ -78,7 +149,7 @@ def report_json(spec, tables):
         "spec": {"file": spec.source_name, "sha256": spec.sha256, "name": spec.name,
                  "prefix": spec.prefix},
         "caution": CAUTION,
-        "tables": [table_record(t) for t in tables],
+        "tables": [table_record_2d(t) if _is_two(t) else table_record(t) for t in tables],
     }
     return json.dumps(doc, indent=2, sort_keys=False, allow_nan=False) + "\n"
 
@@ -101,6 +172,13 @@ def report_markdown(spec, tables, plots):
     lines += ["| function | quantity | input range | tolerance | verified max error | points | storage | method |",
               "|---|---|---|---|---|---|---|---|"]
     for t in tables:
+        if _is_two(t):
+            from .fit.grid2d import grid_summary
+            g = grid_summary(t.gt)
+            lines.append(f"| `{t.spec.function}` | {_md(t.spec.quantity)} [{_md(g['output_unit'])}] | "
+                         f"{_md(g['domain'])} | {_md(g['tolerance'])} | {_md(g['max_error'])} | "
+                         f"{g['points']} | {_md(g['storage'])} | {_md(g['method'])} |")
+            continue
         s = summary(t)
         lines.append(f"| `{s['function']}` | {_md(s['quantity'])} [{_md(s['output_unit'])}] | "
                      f"{_md(s['range'])} | {_md(s['tolerance'])} | {_md(s['max_error'])} | "
@@ -109,6 +187,9 @@ def report_markdown(spec, tables, plots):
               "on the emulated target arithmetic against the IF97 core. It is a measurement, not "
               "a proof of a bound.", ""]
     for t in tables:
+        if _is_two(t):
+            lines += _markdown_2d(t, plots.get(t.name))
+            continue
         s = summary(t)
         v = t.verification
         lines += [f"## `{s['function']}`: {_md(s['quantity'])}", ""]
@@ -163,6 +244,92 @@ def report_markdown(spec, tables, plots):
             lines += ["", f"![error of {s['function']}]({plots[t.name]})"]
         lines.append("")
     return "\n".join(lines)
+
+
+def _markdown_2d(t, plot):
+    from .fit.grid2d import grid_summary
+    g = grid_summary(t.gt)
+    v = t.gt.verification
+    lines = [f"## `{t.spec.function}`: {_md(g['quantity'])} from pressure and {_md(g['second'])}",
+             ""]
+    if t.spec.description:
+        lines += [_md(t.spec.description), ""]
+    lines += [
+        f"- domain: {_md(g['domain'])}",
+        f"- output: {_md(g['quantity'])} in {_md(g['output_unit'])}, {t.gt.grid.fmt}",
+        f"- tolerance: {_md(g['tolerance'])}",
+        f"- verified: {_md(g['verified'])}",
+        f"- with fused multiply-add (emulated): {_md(g['fused']) if g['fused'] else 'not modelled for this format'}",
+        f"- method: {_md(g['method'])}; second coordinate: {_md(g['coordinate'])}",
+        f"- storage: {_md(g['storage'])}",
+        f"- outside the range: {_md(g['policy'])}; {_md(g['wrong_side'])}",
+        f"- points: {_md(', '.join(f'{k} {n}' for k, n in v['counts'].items()))}",
+    ]
+    for n in t.gt.notes:
+        lines.append(f"- note: {_md(n)}")
+    lines += ["", "Candidates tried:", "",
+              "| interpolation | axes | coordinate | met | nodes | storage bytes | est. operations | max error |",
+              "|---|---|---|---|---|---|---|---|"]
+    for c in t.gt.candidates:
+        mark = " (chosen)" if c.get("chosen") else ""
+        met = "yes" if c["met"] else "no: " + str(c.get("why", ""))
+        nodes = f"{c['nx']} x {c['ny']}" if c.get("nx") else ""
+        err = c.get("max_error")
+        lines.append(f"| {c['method']}{mark} | {c['x_layout']}/{c['y_layout']} | {c['coord']} | "
+                     f"{_md(met)} | {nodes} | {c.get('storage_bytes', '')} | "
+                     f"{c.get('estimated_ops', '')} | {'' if err is None else f'{err:.3g}'} |")
+    if plot:
+        lines += ["", f"![error of {t.spec.function}]({plot})"]
+    lines.append("")
+    return lines
+
+
+def error_map(table):
+    """PNG bytes: the two-input table's error over its domain (a heat map in tolerance units),
+    with the saturation line and the grid's pressure lines drawn."""
+    import matplotlib
+    matplotlib.use("Agg")
+    from matplotlib.figure import Figure
+
+    gt = table.gt
+    dom, g = gt.domain, gt.grid
+    P1 = np.geomspace(dom.p_lo, dom.p_hi, 241) if dom.p_hi / dom.p_lo > 20 else \
+        np.linspace(dom.p_lo, dom.p_hi, 241)
+    near, far = dom.limits(P1)
+    a, b = np.minimum(near, far), np.maximum(near, far)
+    vlo, vhi = float(a.min()), float(b.max())
+    if dom.side:
+        vlo = min(vlo, float(np.min(dom.sat(P1))))
+        vhi = max(vhi, float(np.max(dom.sat(P1))))
+    V1 = np.linspace(vlo, vhi, 241)
+    P, V = np.meshgrid(P1, V1, indexing="ij")
+    inside = (V >= a[:, None]) & (V <= b[:, None])
+    E = np.full(P.shape, np.nan)
+    pi, vi = P[inside], V[inside]
+    truth = dom.core(pi, vi)
+    sc = np.abs(truth) if gt.tol_kind == "rel" else 1.0
+    E[inside] = (g(pi, vi).astype(np.float64) - truth) / sc / gt.tol
+    fig = Figure(figsize=(8, 4.2), dpi=100)
+    ax = fig.add_subplot(1, 1, 1)
+    m = ax.pcolormesh(P, V, E, shading="auto", cmap="coolwarm", vmin=-1, vmax=1)
+    fig.colorbar(m, ax=ax, label="error / tolerance")
+    if dom.side:
+        ax.plot(P1, dom.sat(P1), color="k", lw=1.2, label="saturation")
+    for pl in np.asarray(g.x.lines, dtype=np.float64):
+        ax.axvline(pl, color="0.6", lw=0.4, zorder=0)
+    if dom.p_hi / dom.p_lo > 20:
+        ax.set_xscale("log")
+    ax.set_xlim(dom.p_lo, dom.p_hi)
+    ax.set_xlabel(f"pressure [{dom.p_unit}]")
+    ax.set_ylabel(f"{table.spec.inputs[1].quantity.replace('_', ' ')} [{dom.v_unit}]")
+    ax.set_title(f"{table.spec.function}: {g.method}, {g.nx} x {g.ny} nodes, {g.fmt} "
+                 f"(pressure lines grey)", fontsize=9)
+    if dom.side:
+        ax.legend(loc="upper left", fontsize=7)
+    fig.subplots_adjust(left=0.1, right=0.98, top=0.9, bottom=0.13)
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", metadata={"Software": None})
+    return buf.getvalue()
 
 
 def error_plot(table, f, scale):

@@ -21,6 +21,8 @@ Offers ``load_spec(path)``, ``parse_spec(text, source)``, ``Spec``, ``TableSpec`
 import hashlib
 import math
 import re
+
+import numpy as np
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -50,8 +52,11 @@ MAX_VERIFY_POINTS = 5_000_000
 
 _TOP_KEYS = {"name", "prefix", "description", "table", "verify_points"}
 _TABLE_KEYS = {"name", "quantity", "description", "output_unit", "tolerance", "arithmetic",
-               "out_of_range", "goal", "degree", "layout", "verify_points", "sensor"}
+               "out_of_range", "goal", "degree", "layout", "verify_points", "sensor", "phase"}
 _INPUT_KEYS = {"unit", "min", "max", "atmosphere"}
+_RELATIVE_KEYS = {"min_above_saturation", "max_above_saturation", "min_below_saturation",
+                  "max_below_saturation"}
+PHASES = ("vapor", "liquid", "supercritical")
 
 
 class SpecError(ValueError):
@@ -91,6 +96,8 @@ class TableSpec:
     layout: str = None
     verify_points: int = DEFAULT_VERIFY_POINTS
     sensor: object = None     # gen.sensor.Sensor feeding the input, or None
+    domain: object = None     # gen.fit.grid2d.Domain2D for a two-input table, else None
+    phase: str = None
 
     @property
     def output_kind(self):
@@ -220,9 +227,11 @@ def _table(source, index, t, prefix, default_vp):
     if not match:
         want = " or ".join("[" + ", ".join(tup) + "]" for tup in q.inputs)
         _err(source, label, "inputs", f"{qid} takes {want} as input tables; got [{', '.join(input_names)}]")
-    if q.family != "saturation":
-        _err(source, label, "quantity", f"{qid} has two inputs; this version builds one-input (saturation) tables only")
     order = match[0]
+    if q.family != "saturation":
+        return _table2d(source, label, t, qid, order, function, tname, default_vp)
+    if "phase" in t:
+        _err(source, label, "phase", "is for two-input tables; a saturation table has none")
     inputs = tuple(_input(source, label, qid, n, t[n]) for n in order)
     description = t.get("description", "")
     if not isinstance(description, str):
@@ -274,7 +283,7 @@ def _table(source, index, t, prefix, default_vp):
                      goal=goal, degree=degree, layout=layout, verify_points=vp, sensor=sensor)
 
 
-def _input(source, label, qid, name, t):
+def _input(source, label, qid, name, t, check_range=True):
     key = name
     if not isinstance(t, dict):
         _err(source, label, key, "must be a table like { unit = \"bar\", min = 1, max = 16 }")
@@ -309,7 +318,7 @@ def _input(source, label, qid, name, t):
         offset += atm
     vlo, vhi = Q.input_range(qid, (name,))[name]
     slo, shi = lo * scale + offset, hi * scale + offset
-    if slo < vlo * (1 - 1e-12) or shi > vhi * (1 + 1e-12):
+    if check_range and slo < vlo * (1 - 1e-12) or shi > vhi * (1 + 1e-12):
         ulo, uhi = (vlo - offset) / scale, (vhi - offset) / scale
         which = "min" if slo < vlo * (1 - 1e-12) else "max"
         what = "IF97's saturation range (273.15 K up to the critical point)" \
@@ -320,3 +329,108 @@ def _input(source, label, qid, name, t):
              f"valid: {_fmt(ulo)} to {_fmt(uhi)} {unit}{gauge}")
     return InputSpec(quantity=name, unit=unit, lo=lo, hi=hi, scale=scale, offset=offset,
                      atmosphere=atm)
+
+
+def _common(source, label, t, qid):
+    """Keys every table shares: description, output unit, tolerance, arithmetic, policy, goal."""
+    q = Q.CATALOGUE[qid]
+    description = t.get("description", "")
+    if not isinstance(description, str):
+        _err(source, label, "description", "must be a string")
+    out_unit = t.get("output_unit", U.DIMENSIONS[q.kind])
+    if not isinstance(out_unit, str):
+        _err(source, label, "output_unit", "must be a unit name string")
+    try:
+        oscale, ooffset = U.to_si_map(out_unit, q.kind)
+    except U.UnitError as e:
+        _err(source, label, "output_unit", str(e))
+    tol = t.get("tolerance")
+    if not isinstance(tol, dict) or len(tol) != 1 or next(iter(tol)) not in ("abs", "rel"):
+        _err(source, label, "tolerance", "must be { abs = X } in the output unit or { rel = X } as a fraction")
+    kind, value = next(iter(tol.items()))
+    value = _number(source, label, f"tolerance.{kind}", value)
+    if value <= 0:
+        _err(source, label, f"tolerance.{kind}", f"must be positive, not {_fmt(value)}")
+    if kind == "rel" and value >= 0.5:
+        _err(source, label, "tolerance.rel", f"is a fraction and must be below 0.5, not {_fmt(value)}")
+    arithmetic = _choice(source, label, "arithmetic", t.get("arithmetic", "float32"), ARITHMETIC)
+    policy = _choice(source, label, "out_of_range", t.get("out_of_range", "clamp"), POLICIES)
+    goal = _choice(source, label, "goal", t.get("goal", "smallest"), GOALS)
+    return description, out_unit, oscale, ooffset, kind, value, arithmetic, policy, goal
+
+
+def _table2d(source, label, t, qid, order, function, tname, default_vp):
+    """A two-input table: pressure and a second input on one side of saturation."""
+    from .fit.grid2d import DomainError, make_domain
+    for k in ("degree", "layout", "sensor"):
+        if k in t:
+            _err(source, label, k, "is for one-input tables; a two-input table chooses its grid itself")
+    phase = t.get("phase")
+    if phase not in PHASES:
+        _err(source, label, "phase", f"a two-input table needs phase = one of {', '.join(PHASES)}, not {phase!r}")
+    (description, out_unit, oscale, ooffset, kind, value, arithmetic, policy,
+     goal) = _common(source, label, t, qid)
+    vp = _verify_points(source, label, t.get("verify_points", default_vp))
+    pin = _input(source, label, qid, "pressure", t["pressure"], check_range=False)
+    second = order[1]
+    d = t[second]
+    if not isinstance(d, dict):
+        _err(source, label, second, "must be a table like { unit = \"degC\", min = 100, max = 300 }")
+    for k in d:
+        if k not in _INPUT_KEYS - {"atmosphere"} and k not in _RELATIVE_KEYS:
+            _err(source, label, f"{second}.{k}", f"unknown key; allowed: "
+                 f"{', '.join(sorted((_INPUT_KEYS - {'atmosphere'}) | _RELATIVE_KEYS))}")
+    kind2 = Q.INPUT_KIND[second]
+    vunit = d.get("unit", U.DIMENSIONS[kind2])
+    try:
+        vscale, voffset = U.to_si_map(vunit, kind2)
+    except U.UnitError as e:
+        _err(source, label, f"{second}.unit", str(e))
+    # the limit nearest saturation ("near") and the other one ("far"): a key for a distance
+    # from saturation, or an absolute one, for each
+    ends = {"vapor": (("min_above_saturation", "min"), ("max_above_saturation", "max")),
+            "liquid": (("min_below_saturation", "max"), ("max_below_saturation", "min")),
+            "supercritical": ((None, "min"), (None, "max"))}[phase]
+    allowed = {k for pair in ends for k in pair if k}
+    for k in d:
+        if k in _RELATIVE_KEYS and k not in allowed:
+            _err(source, label, f"{second}.{k}", f"does not fit phase = {phase!r}; use "
+                 f"{' or '.join(sorted(allowed & _RELATIVE_KEYS)) or 'absolute min and max'}")
+
+    def limit(rel_key, abs_key):
+        if rel_key and rel_key in d:
+            if abs_key in d:
+                _err(source, label, f"{second}.{abs_key}", f"give {abs_key} or {rel_key}, not both")
+            v = _number(source, label, f"{second}.{rel_key}", d[rel_key])
+            if v < 0:
+                _err(source, label, f"{second}.{rel_key}", f"is a distance from saturation and "
+                     f"must be >= 0, not {_fmt(v)}")
+            return v, True
+        if abs_key not in d:
+            _err(source, label, f"{second}.{abs_key}", "is required"
+                 + (f" (or {rel_key})" if rel_key else ""))
+        return _number(source, label, f"{second}.{abs_key}", d[abs_key]), False
+
+    (near, near_rel), (far, far_rel) = limit(*ends[0]), limit(*ends[1])
+    if near_rel and far_rel and not near < far:
+        _err(source, label, f"{second}.{ends[0][0]}", f"must be below {ends[1][0]} "
+             f"(got {_fmt(near)} >= {_fmt(far)})")
+    if not near_rel and not far_rel:
+        lo_, hi_ = (near, far) if phase != "liquid" else (far, near)
+        if not lo_ < hi_:
+            _err(source, label, f"{second}.min", f"must be below {second}.max "
+                 f"(got {_fmt(lo_)} >= {_fmt(hi_)})")
+    lo = float(d.get("min", np.nan)) if "min" in d else np.nan
+    hi = float(d.get("max", np.nan)) if "max" in d else np.nan
+    try:
+        dom = make_domain(qid, phase, pin.lo, pin.hi, near, far, near_rel=near_rel,
+                          far_rel=far_rel, second=second, p_unit=pin.unit, v_unit=vunit,
+                          out_unit=out_unit)
+    except DomainError as e:
+        _err(source, label, second, str(e))
+    vin = InputSpec(quantity=second, unit=vunit, lo=lo, hi=hi, scale=vscale, offset=voffset)
+    return TableSpec(name=tname, function=function, quantity=qid, description=description,
+                     inputs=(pin, vin), output_unit=out_unit, out_scale=oscale,
+                     out_offset=ooffset, tol_kind=kind, tol_value=value,
+                     arithmetic=arithmetic, policy=policy, goal=goal, verify_points=vp,
+                     domain=dom, phase=phase)

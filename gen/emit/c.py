@@ -129,19 +129,84 @@ def vectors_context(table, reference):
             "y_hi_bits": f"0x{int(np.asarray(y_hi, ft).view(utype)):x}u"}
 
 
+def vector_points_2d(table, n_random=RANDOM_VECTORS):
+    """Inputs for a two-input table's vectors: the corners and edges of the domain at every
+    grid pressure, cell centres, seeded random points inside, and points on the wrong side."""
+    gt = table.gt
+    dom, g = gt.domain, gt.grid
+    ft = arith.FORMATS[g.fmt]
+    pl = np.asarray(g.x.lines, dtype=np.float64)
+    pc = 0.5 * (pl[:-1] + pl[1:])
+    ps = np.concatenate([pl, pc])
+    near, far = dom.limits(ps)
+    mid = 0.5 * (near + far)
+    P = [ps, ps, ps]
+    V = [near, far, mid]
+    rng = np.random.default_rng(table.verification["seed"] ^ 0x5EED)
+    pr = rng.uniform(dom.p_lo, dom.p_hi, n_random)
+    a, b = dom.limits(pr)
+    P.append(pr)
+    V.append(a + (b - a) * rng.uniform(0.0, 1.0, n_random))
+    P, V = np.concatenate(P), np.concatenate(V)
+    # inside the domain only (in the format): the reference is the core there
+    P, V = P.astype(ft).astype(np.float64), V.astype(ft).astype(np.float64)
+    a, b = dom.limits(P)
+    lo, hi = np.minimum(a, b), np.maximum(a, b)
+    keep = (V >= lo) & (V <= hi) & (P >= dom.p_lo) & (P <= dom.p_hi)
+    return P[keep], V[keep]
+
+
+def vectors_context_2d(table):
+    gt = table.gt
+    dom, g = gt.domain, gt.grid
+    fmt = g.fmt
+    ft = arith.FORMATS[fmt]
+    P, V = vector_points_2d(table)
+    y = g(P, V).astype(ft)
+    ref = dom.core(P, V)
+    utype = np.uint32 if fmt == "float32" else np.uint64
+    bits = y.view(utype)
+    rows = [{"p": hex_literal(p, fmt), "v": hex_literal(v, fmt),
+             "bits": f"0x{int(bi):0{8 if fmt == 'float32' else 16}x}u",
+             "ref": "(double)NAN" if np.isnan(r) else repr(float(r))}
+            for p, v, bi, r in zip(P, V, bits, ref)]
+    wrong = []
+    if dom.side:
+        # a point a little on the other side of saturation, at mid pressure
+        pm = np.array([0.5 * (dom.p_lo + dom.p_hi)])
+        sv = dom.sat(pm)[0]
+        step = max(abs(sv) * 1e-3, 1.0 * (1.0 if dom.second == "temperature" else 10.0))
+        wv = sv - dom.side * step
+        wrong = [{"p": hex_literal(ft(pm[0]), fmt), "v": hex_literal(ft(wv), fmt)}]
+    return {"rows": rows, "count": len(rows), "tol_kind": gt.tol_kind, "tol": repr(float(gt.tol)),
+            "wrong": wrong}
+
+
 def render_c(spec, tables, base, references):
     """Render NAME.h, NAME.c and NAME_vectors.c; ``references[name]`` is the core in user units."""
     env = template_env()
     guard = "".join(ch if ch.isalnum() else "_" for ch in base).upper() + "_H"
+    from ..fit.grid2d import grid_c_context
+    ctxs = []
+    for t in tables:
+        if getattr(t, "gt", None) is not None:
+            c = grid_c_context(t.gt, t.spec.function, t.spec.name)
+            c["two"] = True
+            c["vec"] = vectors_context_2d(t)
+        else:
+            c = table_context(t)
+            c["two"] = False
+            c["vec"] = vectors_context(t, references[t.name])
+        ctxs.append(c)
     ctx = {"p": provenance(spec), "caution": CAUTION, "base": base, "guard": guard,
            "PRE": spec.prefix.upper(), "pre": spec.prefix,
-           "spec_description": c_comment(spec.description),
-           "tables": [table_context(t) for t in tables]}
-    for tc, t in zip(ctx["tables"], tables):
-        tc["vec"] = vectors_context(t, references[t.name])
-    ctx["needs_string"] = any(t.piecewise.layout == "binade" for t in tables)
-    ctx["needs_math"] = any(t.piecewise.policy == "nan" or t.piecewise.layout == "closed_form"
-                            for t in tables)
+           "spec_description": c_comment(spec.description), "tables": ctxs,
+           "any_two": any(c["two"] for c in ctxs)}
+    ctx["needs_string"] = any(c["needs_string"] if c["two"] else c["layout"] == "binade"
+                              for c in ctxs)
+    ctx["needs_math"] = any(c["needs_math"] if c["two"]
+                            else (c["policy"] == "nan" or c["layout"] == "closed_form")
+                            for c in ctxs)
     return {f"{base}.h": env.get_template("c_header.h.j2").render(ctx),
             f"{base}.c": env.get_template("c_source.c.j2").render(ctx),
             f"{base}_vectors.c": env.get_template("c_vectors.c.j2").render(ctx)}

@@ -6,6 +6,8 @@ Offers ``render_python(spec, tables, base)`` -> {file: text}.
 
 from pathlib import Path
 
+import numpy as np
+
 from .. import arith
 from .c import table_context
 from .common import CAUTION, provenance, template_env
@@ -35,14 +37,50 @@ def _py_table(t):
     return tab
 
 
+def py_literal(value, fmt, indent=8):
+    """Python source for a run-time value: dicts, arrays in the format (hex strings), numbers."""
+    pad = " " * indent
+    if isinstance(value, dict):
+        items = [f"{pad}{k!r}: {py_literal(v, fmt, indent + 4)}," for k, v in value.items()]
+        return "{\n" + "\n".join(items) + "\n" + " " * (indent - 4) + "}"
+    if value is None or isinstance(value, (bool, str)):
+        return repr(value)
+    if isinstance(value, (int, np.integer)):
+        return repr(int(value))
+    a = np.asarray(value)
+    if a.ndim == 0:
+        if a.dtype.kind == "f":
+            return f'FORMATS["{fmt}"](float.fromhex("{float(a).hex()}"))' if a.dtype != np.float64 \
+                else f'float.fromhex("{float(a).hex()}")'
+        return repr(a.item())
+    if a.dtype.kind in "iu":
+        return f"np.array({a.tolist()!r}, dtype=np.int64)"
+    dt = "float32" if a.dtype == np.float32 else "float64"
+    lines = _hex_list(a.ravel(), per_line=3)
+    body = ("\n" + pad).join(lines)
+    return f"_table([\n{pad}{body}\n{pad}], {dt!r}).reshape({a.shape!r})"
+
+
 def render_python(spec, tables, base):
     env = template_env()
     runtime = Path(arith.__file__).read_text(encoding="utf-8").rstrip() + "\n"
     ctxs = []
+    any_two = False
     for t in tables:
-        c = table_context(t)
-        c["py"] = _py_table(t)
+        if getattr(t, "gt", None) is not None:
+            from ..fit.grid2d import grid_c_context
+            c = grid_c_context(t.gt, t.spec.function, t.spec.name)
+            c["two"] = True
+            c["py_tab"] = py_literal(t.gt.grid.runtime(), t.gt.grid.fmt)
+            any_two = True
+        else:
+            c = table_context(t)
+            c["two"] = False
+            c["py"] = _py_table(t)
         ctxs.append(c)
+    if any_two:
+        from .. import arith2d
+        runtime += "\n\n" + Path(arith2d.__file__).read_text(encoding="utf-8").rstrip() + "\n"
     ctx = {"p": provenance(spec), "caution": CAUTION, "base": base, "tables": ctxs,
            "runtime": runtime}
     return {f"{base}.py": env.get_template("python_module.py.j2").render(ctx)}
