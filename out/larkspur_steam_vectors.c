@@ -617,6 +617,7 @@ static void check_lvc__autoclave_tsat(void)
     }
 }
 
+
 struct lvc__boiler_tsat_vec {
     float x;
     uint32_t bits;
@@ -1442,6 +1443,7 @@ static void check_lvc__boiler_tsat(void)
     }
 }
 
+
 struct lvc__steam_density_vec {
     float x;
     uint32_t bits;
@@ -2033,6 +2035,7 @@ static void check_lvc__steam_density(void)
         }
     }
 }
+
 
 struct lvc__steam_latent_vec {
     float x;
@@ -2629,6 +2632,7 @@ static void check_lvc__steam_latent(void)
     }
 }
 
+
 struct lvc__condensate_h_vec {
     float x;
     uint32_t bits;
@@ -3218,6 +3222,7 @@ static void check_lvc__condensate_h(void)
     }
 }
 
+
 struct lvc__cooler_psat_vec {
     float x;
     uint32_t bits;
@@ -3806,6 +3811,7 @@ static void check_lvc__cooler_psat(void)
         }
     }
 }
+
 
 int main(void)
 {
