@@ -191,20 +191,20 @@ def render_c(spec, tables, base, references):
     for t in tables:
         if getattr(t, "gt", None) is not None:
             c = grid_c_context(t.gt, t.spec.function, t.spec.name)
-            c["two"] = True
+            c["is_grid"] = True
             c["vec"] = vectors_context_2d(t)
         else:
             c = table_context(t)
-            c["two"] = False
+            c["is_grid"] = False
             c["vec"] = vectors_context(t, references[t.name])
         ctxs.append(c)
     ctx = {"p": provenance(spec), "caution": CAUTION, "base": base, "guard": guard,
            "PRE": spec.prefix.upper(), "pre": spec.prefix,
            "spec_description": c_comment(spec.description), "tables": ctxs,
-           "any_two": any(c["two"] for c in ctxs)}
-    ctx["needs_string"] = any(c["needs_string"] if c["two"] else c["layout"] == "binade"
+           "any_two": any(c["is_grid"] for c in ctxs)}
+    ctx["needs_string"] = any(c["needs_string"] if c["is_grid"] else c["layout"] == "binade"
                               for c in ctxs)
-    ctx["needs_math"] = any(c["needs_math"] if c["two"]
+    ctx["needs_math"] = any(c["needs_math"] if c["is_grid"]
                             else (c["policy"] == "nan" or c["layout"] == "closed_form")
                             for c in ctxs)
     return {f"{base}.h": env.get_template("c_header.h.j2").render(ctx),

@@ -70,12 +70,12 @@ def render_python(spec, tables, base):
         if getattr(t, "gt", None) is not None:
             from ..fit.grid2d import grid_c_context
             c = grid_c_context(t.gt, t.spec.function, t.spec.name)
-            c["two"] = True
+            c["is_grid"] = True
             c["py_tab"] = py_literal(t.gt.grid.runtime(), t.gt.grid.fmt)
             any_two = True
         else:
             c = table_context(t)
-            c["two"] = False
+            c["is_grid"] = False
             c["py"] = _py_table(t)
         ctxs.append(c)
     if any_two:
