@@ -143,7 +143,7 @@ float lvg_main_steam_density(float p, float v)
     }
     d0 = u - (float)kx;
     d1 = d0 - 0x1p+0f;
-    d2 = d0 - True;
+    d2 = d0 - 0x1p+1f;
     d3 = d0 - 0x1.8p+1f;
     q01 = d0 * d1;
     q23 = d2 * d3;
@@ -166,7 +166,7 @@ float lvg_main_steam_density(float p, float v)
     }
     d0 = u - (float)ky;
     d1 = d0 - 0x1p+0f;
-    d2 = d0 - True;
+    d2 = d0 - 0x1p+1f;
     d3 = d0 - 0x1.8p+1f;
     q01 = d0 * d1;
     q23 = d2 * d3;
@@ -361,7 +361,7 @@ float lvg_feedwater_density(float p, float v)
     }
     d0 = u - (float)kx;
     d1 = d0 - 0x1p+0f;
-    d2 = d0 - True;
+    d2 = d0 - 0x1p+1f;
     d3 = d0 - 0x1.8p+1f;
     q01 = d0 * d1;
     q23 = d2 * d3;
@@ -384,7 +384,7 @@ float lvg_feedwater_density(float p, float v)
     }
     d0 = u - (float)ky;
     d1 = d0 - 0x1p+0f;
-    d2 = d0 - True;
+    d2 = d0 - 0x1p+1f;
     d3 = d0 - 0x1.8p+1f;
     q01 = d0 * d1;
     q23 = d2 * d3;
