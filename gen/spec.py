@@ -233,28 +233,8 @@ def _table(source, index, t, prefix, default_vp):
     if "phase" in t:
         _err(source, label, "phase", "is for two-input tables; a saturation table has none")
     inputs = tuple(_input(source, label, qid, n, t[n]) for n in order)
-    description = t.get("description", "")
-    if not isinstance(description, str):
-        _err(source, label, "description", "must be a string")
-    out_unit = t.get("output_unit", U.DIMENSIONS[q.kind])
-    if not isinstance(out_unit, str):
-        _err(source, label, "output_unit", "must be a unit name string")
-    try:
-        oscale, ooffset = U.to_si_map(out_unit, q.kind)
-    except U.UnitError as e:
-        _err(source, label, "output_unit", str(e))
-    tol = t.get("tolerance")
-    if not isinstance(tol, dict) or len(tol) != 1 or next(iter(tol)) not in ("abs", "rel"):
-        _err(source, label, "tolerance", "must be { abs = X } in the output unit or { rel = X } as a fraction")
-    kind, value = next(iter(tol.items()))
-    value = _number(source, label, f"tolerance.{kind}", value)
-    if value <= 0:
-        _err(source, label, f"tolerance.{kind}", f"must be positive, not {_fmt(value)}")
-    if kind == "rel" and value >= 0.5:
-        _err(source, label, "tolerance.rel", f"is a fraction and must be below 0.5, not {_fmt(value)}")
-    arithmetic = _choice(source, label, "arithmetic", t.get("arithmetic", "float32"), ARITHMETIC)
-    policy = _choice(source, label, "out_of_range", t.get("out_of_range", "clamp"), POLICIES)
-    goal = _choice(source, label, "goal", t.get("goal", "smallest"), GOALS)
+    (description, out_unit, oscale, ooffset, kind, value, arithmetic, policy,
+     goal) = _common(source, label, t, qid)
     degree = t.get("degree")
     if degree is not None:
         if isinstance(degree, bool) or degree not in DEGREES:
