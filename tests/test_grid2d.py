@@ -231,11 +231,32 @@ def probe_points(gt, seed, n=4000):
     return np.concatenate([p, po, sp]), np.concatenate([v, vo, sv])
 
 
-def test_compiled_c_equals_emulation_bit_for_bit(steam, water, backward, tmp_path):
+@pytest.fixture(scope="module")
+def supercritical():
+    dom = G.make_domain("specific_volume", "supercritical", 25.0, 30.2, 699.5, 760.0,
+                        near_rel=False, far_rel=False, p_unit="MPa", v_unit="K")
+    return G.build_grid(dom, "rel", 1e-3, verify_points=VERIFY)
+
+
+def every_candidate(gt, tag):
+    """Each fitted candidate of a table as a table of its own (every method, axis layout and
+    coordinate the engine tried)."""
+    out = []
+    for i, (g, v) in enumerate(gt.fits):
+        if g is not None:
+            out.append((f"{tag}{i}", replace(gt, grid=g, verification=v)))
+    return out
+
+
+def test_compiled_c_equals_emulation_bit_for_bit(steam, water, backward, supercritical,
+                                                 tmp_path):
     nan_steam = replace(steam, grid=replace(steam.grid, policy="nan"))
-    fast = steam.choose("fastest")
-    tables = [("steam", steam), ("water", water), ("back", backward), ("steam_nan", nan_steam),
-              ("steam_fast", fast)]
+    nan_water = replace(water, grid=replace(water.grid, policy="nan"))
+    tables = (every_candidate(steam, "steam") + every_candidate(water, "water")
+              + [("back", backward), ("steam_nan", nan_steam), ("water_nan", nan_water),
+                 ("sc", supercritical)])
+    layouts = {(gt.grid.method, gt.grid.x.layout, gt.grid.coord) for _, gt in tables}
+    assert len(layouts) == 2 * 3 * 3      # every method, axis layout and coordinate
     (tmp_path / "grids.c").write_text(render_source(tables))
     exe = compile_c(tmp_path, ["grids.c"], tmp_path / "grids")
     rows, expect = [], []

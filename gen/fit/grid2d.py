@@ -210,10 +210,8 @@ class Domain2D:
         if self.side and self.second == "temperature":
             ssi = self.v_si(self.sat(p))
             hair = np.abs(ssi) * 2e-13 + 1e-12
-            if self.side > 0:
-                vsi = np.where(vsi < ssi + hair, np.maximum(vsi, ssi + hair), vsi)
-            else:
-                vsi = np.where(vsi > ssi - hair, np.minimum(vsi, ssi - hair), vsi)
+            close = np.abs(vsi - ssi) < hair
+            vsi = np.where(close, ssi + self.side * hair, vsi)
         kw = {"pressure": psi, self.second: vsi}
         phase = {"vapor": "vapor", "liquid": "liquid"}.get(self.phase)
         if Q.CATALOGUE[self.quantity].family == "single_phase":
