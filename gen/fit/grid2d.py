@@ -1,20 +1,24 @@
 """Two-input tables: phase-aware domains, the stored grid, fitting with error control, choice.
 
 A single-phase table of two inputs (pressure and temperature, or pressure and specific enthalpy
-or entropy for the backward temperature) must not reach across the saturation line, where the
-properties jump. So the grid is not laid over the raw inputs but over pressure and a second
-coordinate measured from saturation:
+or entropy for the backward temperature) must not interpolate across the saturation line, where
+the properties jump. The second coordinate of the grid is one of:
 
 * ``offset``: superheat ``v - S(p)`` on the vapour side, subcooling ``S(p) - v`` on the liquid
   side, where S(p) is the saturation value of the second input (T_sat, h'', h', s'', s');
 * ``normalized``: ``(v - near(p)) / (far(p) - near(p))``, 0 at the limit nearest saturation and
   1 at the other one; this maps a range with one absolute and one relative limit (for example
   from T_sat + 5 K up to 450 degC) onto a rectangle, at the price of one division per call;
-* ``raw``: ``v`` itself, for ranges with two absolute limits (supercritical tables).
+* ``raw``: ``v`` itself. For ranges with two absolute limits (supercritical tables), and for a
+  vapour or liquid range lying in one IF97 region (1 or 2): the grid is then a box over the raw
+  inputs, v is clamped to the limits at its pressure first, and nodes beyond saturation take the
+  phase's own equation continued past it (metastable states near the line; nodes no cell of the
+  domain uses are filled). In (p, superheat) the grid inherits the curvature of T_sat(p) along
+  p, which the raw box does not have, so for liquids and for T(p, h) it is often the smallest.
 
-With one absolute and one relative limit the ``offset`` coordinate is also offered: its y axis
-then runs to the largest distance over the pressure range and the absolute limit is applied by
-clamping v first, so part of the grid is never reached (stored but unused, no division).
+With one absolute and one relative limit the ``offset`` coordinate runs to the largest distance
+over the pressure range and the absolute limit is applied by clamping v first, so part of the
+grid is never reached (stored but unused, no division). Every coordinate that applies is tried.
 
 The run time needs S(p): a one-input table built by :func:`gen.build.build_table` (in the same
 format, emitted with the one-input macro); its bytes are counted in the grid's storage and its
@@ -347,7 +351,10 @@ def check_domain(dom, tol_kind=None, tol=None):
         if p_hi_si > 100e6:
             raise DomainError(f"high-pressure edge {_pt(dom, dom.p_hi)} is above IF97's "
                               f"{_pt(dom, pu(100e6))}")
-        t_lo, t_hi = sorted((float(dom.v_si(dom.near)), float(dom.v_si(dom.far))))
+        if not dom.near < dom.far:
+            raise DomainError(f"the lower limit {_vt(dom, dom.near)} of a supercritical table must "
+                              f"be below its upper limit {_vt(dom, dom.far)}")
+        t_lo, t_hi = float(dom.v_si(dom.near)), float(dom.v_si(dom.far))
         if dom.second == "temperature":
             if not (p_lo_si > PC or t_lo > TC):
                 raise DomainError(
