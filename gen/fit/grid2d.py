@@ -1242,12 +1242,6 @@ _ORDER = {"bilinear": (2, 1.0 / 8.0, 2), "bicubic": (4, 1.0 / 24.0, 4)}
 MAX_ROUNDS = 40
 
 
-def _axis(layout, lines_or_n, lo, hi, method, fmt):
-    if layout == "free":
-        return free_axis(lines_or_n, method, fmt)
-    return uniform_axis(lo, hi, int(lines_or_n), fmt)
-
-
 def _tab(prob, coord, method, xax, yax, Z):
     tab = prob.base_tab(coord)
     tab.update({"method": method, "x": xax.runtime(prob.fmt), "y": yax.runtime(prob.fmt),
@@ -1954,7 +1948,11 @@ def grid_summary(gt):
         return (f"{e:.3g} {dom.out_unit}" if gt.tol_kind == "abs" else f"{e * 100:.3g} %")
 
     at = v["at"]
-    coord = {"raw": f"{_WORDS[dom.second]} itself",
+    raw = (f"{_WORDS[dom.second]} itself" if not g.side else
+           f"{_WORDS[dom.second]} itself on a box over the raw inputs, clamped first to its "
+           f"limits at p" + ("; nodes beyond saturation from the phase's own equation continued "
+                             "past it" if (g.near_rel or g.far_rel) else ""))
+    coord = {"raw": raw,
              "offset": (f"{'superheat' if dom.side > 0 else 'subcooling'} "
                         f"y = {'v - S(p)' if dom.side > 0 else 'S(p) - v'} in {dom.v_unit}"
                         + ("" if dom.near_rel and dom.far_rel else
