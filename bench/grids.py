@@ -145,7 +145,8 @@ def baseline_search(gt, kind):
     # and the edges, with rows just inside the limit nearest saturation, where raw cells that
     # reach across the saturation line hurt first
     pe, ve = prob.edge_inputs(2049)
-    pn = np.geomspace(dom.p_lo, dom.p_hi, 2049) if dom.p_lo > 0 else np.linspace(dom.p_lo, dom.p_hi, 2049)
+    pn = (np.geomspace(dom.p_lo, dom.p_hi, 2049) if dom.p_lo > 0
+          else np.linspace(dom.p_lo, dom.p_hi, 2049))
     ln, lf = dom.limits(pn)
     rows = [(pn, ln + a * (lf - ln)) for a in (1e-3, 3e-3, 1e-2, 3e-2, 0.1)]
     p = np.concatenate([p, pe] + [r[0] for r in rows])
@@ -427,7 +428,8 @@ def main():
                   f"{measured[ci]:.1f} instructions per call (target <= {INSN_TARGET:g}) "
                   f"{verdict(measured[ci] <= INSN_TARGET)}")
             print(f"  fastest (built with goal \"fastest\"): {describe(fr).strip()}, "
-                  f"{fast.grid.nx} x {fast.grid.ny}, helper {fast.grid.helper.layout if fast.grid.helper else 'none'}, "
+                  f"{fast.grid.nx} x {fast.grid.ny}, helper "
+                  f"{fast.grid.helper.layout if fast.grid.helper else 'none'}, "
                   f"{fast.grid.storage_bytes} bytes, ratio {gt_}{rf:.1f}x "
                   f"{verdict(rf >= RATIO_TARGET)}; {ins_fast:.1f} instructions per call "
                   f"{verdict(ins_fast <= INSN_TARGET)}; max error "
@@ -447,8 +449,8 @@ def main():
                 print(f"  (the \"fastest\" table meets both too: {fast.grid.storage_bytes} bytes, "
                       f"{ins_fast:.1f} instructions)")
             summary.append((name, gt_, rs, rs2, measured[ci], rf, ins_fast,
-                            None if k is None else (base["bytes"] / gt.candidates[k]["storage_bytes"],
-                                                    measured[k])))
+                            None if k is None else
+                            (base["bytes"] / gt.candidates[k]["storage_bytes"], measured[k])))
             print()
     print("== summary (ratio: against the raw grid of core values; ratio2: against the raw grid "
           "with the continued equation) ==")

@@ -632,7 +632,8 @@ def free_axis(lines, method, fmt):
 
 def _order_keys(a, fmt):
     """Integers in the order of the format's values (for bisection over representable values)."""
-    stype, mask = {"float32": (np.int32, 0x7FFFFFFF), "float64": (np.int64, 0x7FFFFFFFFFFFFFFF)}[fmt]
+    stype, mask = {"float32": (np.int32, 0x7FFFFFFF),
+                   "float64": (np.int64, 0x7FFFFFFFFFFFFFFF)}[fmt]
     sbits = np.ascontiguousarray(np.asarray(a).astype(arith.FORMATS[fmt])).view(stype)
     mag = (sbits & stype(mask)).astype(np.int64)
     return np.where(sbits < 0, -mag, mag)
@@ -656,7 +657,8 @@ def mapped_axis(ax, fmt, max_bins=MAX_BINS, bins=None):
     lines = np.asarray(ax.lines, dtype=np.float64)
     lo, hi = float(ft(ax.lo)), float(ft(ax.hi))
     if bins is None:
-        bins = int(min(max_bins, max(lines.size - 1, math.ceil((hi - lo) / np.min(np.diff(lines))))))
+        narrowest = float(np.min(np.diff(lines)))
+        bins = int(min(max_bins, max(lines.size - 1, math.ceil((hi - lo) / narrowest))))
     b0 = lo
     inv_hb = float(ft(bins / (hi - b0)))
 
@@ -957,8 +959,12 @@ class Problem:
         if ("yr", coord) in self._cache:
             return self._cache[("yr", coord)]
         d, ft = self.dom, self.ft
-        up = lambda a: float(np.nextafter(ft(a), ft(np.inf))) if float(ft(a)) < a else float(ft(a))  # noqa: E731
-        dn = lambda a: float(np.nextafter(ft(a), ft(-np.inf))) if float(ft(a)) > a else float(ft(a))  # noqa: E731
+        def up(a):
+            return float(np.nextafter(ft(a), ft(np.inf))) if float(ft(a)) < a else float(ft(a))
+
+        def dn(a):
+            return float(np.nextafter(ft(a), ft(-np.inf))) if float(ft(a)) > a else float(ft(a))
+
         if coord == "normalized":
             r = (0.0, 1.0)
         elif coord == "raw" and (d.near_rel or d.far_rel):
@@ -1199,7 +1205,9 @@ class Problem:
             dv = 1e-4 * np.abs(far - near)
             fp = np.abs(self.f(P + dp, V) - self.f(P - dp, V)) / (2 * dp)
             fv = np.abs(self.f(P, V + dv) - self.f(P, V - dv)) / (2 * dv)
-            ulp = lambda a: np.spacing(np.abs(np.asarray(a)).astype(ft)).astype(np.float64)  # noqa: E731
+            def ulp(a):
+                return np.spacing(np.abs(np.asarray(a)).astype(ft)).astype(np.float64)
+
             e = 0.5 * ulp(F) + 0.5 * fp * ulp(P) + 0.5 * fv * ulp(V)
             if self.side:
                 e = e + 0.5 * fv * ulp(self.dom.sat(P))
@@ -1478,7 +1486,10 @@ def _fit_uniform(prob, coord, method, target):
     nx0, ny0 = model(Gx, Lx), model(Gy, Ly)
     # smallest common scale of the model's counts that passes
     lo_s, hi_s = 0.0, 1.0
-    while not trial(max(nmin, int(math.ceil(nx0 * hi_s))), max(nmin, int(math.ceil(ny0 * hi_s))))[0]:
+    def scaled(f):
+        return max(nmin, int(math.ceil(nx0 * f))), max(nmin, int(math.ceil(ny0 * f)))
+
+    while not trial(*scaled(hi_s))[0]:
         if cache.get("no_value"):
             return "the core has no value at some grid nodes"
         lo_s, hi_s = hi_s, hi_s * 1.6
