@@ -286,7 +286,7 @@ static inline float lvg__feedwater_density_sat(float x)
  * Domain: pressure 2 to 25 bar; temperature from T_sat(p) - 5 degC to 20 degC (liquid side of saturation).
  * Tolerance 0.02 % of the value; verified 0.015 % at p = 2.15569 bar, temperature = 34.1499 degC (51920 sampled points).
  * Method: four-node Lagrange interpolation per axis over 4x4 node values (continuous, not smooth, across cell edges) on 4 x 6 nodes; pressure: equal spacing, index computed; second coordinate: equal spacing, index computed.
- * Second coordinate: temperature itself; S(p) = lvg__feedwater_density_sat(p).
+ * Second coordinate: temperature itself on a box over the raw inputs, clamped first to its limits at p; nodes beyond saturation from the phase's own equation continued past it; S(p) = lvg__feedwater_density_sat(p).
  * z[i][j] is the value at (p_i, y_j); the stencil of cell i is nodes k..k+3, k = i-1 moved inside;
  * weights w_m = prod_{n != m} d_n / prod_{n != m} (c_m - c_n), r = sum_a wx[a] * sum_b wy[b] * z[kx+a][ky+b].
  */
@@ -503,7 +503,7 @@ static inline float lvg__hx5_outlet_temperature_sat(float x)
  * Domain: pressure 2 to 16 bar; specific enthalpy from h_sat(p) + 20 kJ/kg to 3050 kJ/kg (vapour side of saturation).
  * Tolerance 0.1 degC; verified 0.0697 degC at p = 10.9427 bar, specific enthalpy = 2806.32 kJ/kg (51975 sampled points).
  * Method: four-node Lagrange interpolation per axis over 4x4 node values (continuous, not smooth, across cell edges) on 4 x 7 nodes; pressure: equal spacing, index computed; second coordinate: equal spacing, index computed.
- * Second coordinate: specific enthalpy itself; S(p) = lvg__hx5_outlet_temperature_sat(p).
+ * Second coordinate: specific enthalpy itself on a box over the raw inputs, clamped first to its limits at p; nodes beyond saturation from the phase's own equation continued past it; S(p) = lvg__hx5_outlet_temperature_sat(p).
  * z[i][j] is the value at (p_i, y_j); the stencil of cell i is nodes k..k+3, k = i-1 moved inside;
  * weights w_m = prod_{n != m} d_n / prod_{n != m} (c_m - c_n), r = sum_a wx[a] * sum_b wy[b] * z[kx+a][ky+b].
  */

@@ -52,7 +52,7 @@ int32_t lvg_main_steam_density_status(float p, float v, float *y);
  *   verified   0.015 % at p = 2.15569 bar, temperature = 34.1499 degC, the largest of 51920 sampled points (edges, grid lines and neighbours, cell interiors, seeded random) of the whole function in float32 emulation against the IF97 core; a sampled maximum, not a bound
  *   with FMA   0.015 % when the compiler fuses a + b*c (emulated)
  *   method     four-node Lagrange interpolation per axis over 4x4 node values (continuous, not smooth, across cell edges) on 4 x 6 nodes; pressure: equal spacing, index computed; second coordinate: equal spacing, index computed, float32
- *   coordinate temperature itself
+ *   coordinate temperature itself on a box over the raw inputs, clamped first to its limits at p; nodes beyond saturation from the phase's own equation continued past it
  *   storage    176 bytes (44 float values, of which the saturation helper 80 bytes)
  *   outside    inputs outside the range are clamped to it (the second input to its limits at the clamped pressure); NaN gives NaN; a point on the other side of the saturation line (as the helper sees it) gets the value at the nearest limit, and status WRONG_SIDE
  */
@@ -72,7 +72,7 @@ int32_t lvg_feedwater_density_status(float p, float v, float *y);
  *   verified   0.0697 degC at p = 10.9427 bar, specific enthalpy = 2806.32 kJ/kg, the largest of 51975 sampled points (edges, grid lines and neighbours, cell interiors, seeded random) of the whole function in float32 emulation against the IF97 core; a sampled maximum, not a bound
  *   with FMA   0.0697 degC when the compiler fuses a + b*c (emulated)
  *   method     four-node Lagrange interpolation per axis over 4x4 node values (continuous, not smooth, across cell edges) on 4 x 7 nodes; pressure: equal spacing, index computed; second coordinate: equal spacing, index computed, float32
- *   coordinate specific enthalpy itself
+ *   coordinate specific enthalpy itself on a box over the raw inputs, clamped first to its limits at p; nodes beyond saturation from the phase's own equation continued past it
  *   storage    172 bytes (43 float values, of which the saturation helper 60 bytes)
  *   outside    inputs outside the range are clamped to it (the second input to its limits at the clamped pressure); NaN gives NaN; a point on the other side of the saturation line (as the helper sees it) gets the value at the nearest limit, and status WRONG_SIDE
  */
