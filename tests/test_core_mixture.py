@@ -56,3 +56,10 @@ def test_quality_round_trip_and_outside_the_dome():
     assert np.all(np.isnan(core.quality_ph(p, vap["h"] + 1000.0)))  # superheated
     assert np.isnan(core.quality_ph(25e6, 2e6))  # supercritical: no dome
     assert np.all(np.isnan(core.mixture_T(400.0, np.array([-0.1, 1.1]))["h"]))
+
+
+def test_empty_arrays_give_empty_results():
+    from gen.quantities import evaluate
+    assert evaluate("saturated_vapor_enthalpy", pressure=np.array([])).shape == (0,)
+    liq, vap = core.saturated_states(np.array([]))
+    assert liq["h"].shape == (0,) and vap["rho"].shape == (0,)

@@ -65,6 +65,10 @@ def saturated_states(T):
         liq_parts.append((high, region3.props_rhoT(rl, t)))
         vap_parts.append((high, region3.props_rhoT(rv, t)))
     n = Tf.shape
+    if Tf.size == 0:
+        empty = {k: np.zeros(shape) for k in ("v", "rho", "u", "h", "s", "cp", "cv", "w",
+                                              "kappa", "drhodp")}
+        return empty, dict(empty)
     liq = {k: v.reshape(shape) for k, v in _merge(liq_parts, n).items()}
     vap = {k: v.reshape(shape) for k, v in _merge(vap_parts, n).items()}
     return liq, vap
