@@ -86,6 +86,8 @@ import numpy as np
 from . import __version__
 from . import quantities as Q
 from . import units as U
+from .build import core_function, error_scale, format_floor
+from .report import _md
 from .verify import verify_table
 
 INTERPOLATIONS = ("step", "nearest", "linear", "linear-in-log", "cubic-spline", "bilinear")
@@ -321,26 +323,6 @@ def _check_valid(spec, k, value, where):
     why = _invalid(spec, k, value)
     if why:
         raise AuditError(f"{where}: {why}")
-
-
-def core_function(spec):
-    """The core in the table's units: ``f(x)`` for one input, ``f(a, b)`` for two."""
-    ins = spec.inputs
-    qid = spec.quantity
-
-    def f(*xs):
-        si = {inp.quantity: np.asarray(x, dtype=np.float64) * inp.scale + inp.offset
-              for inp, x in zip(ins, xs)}
-        y = Q.evaluate(qid, mask=True, **si)
-        return (np.asarray(y, dtype=np.float64) - spec.out_offset) / spec.out_scale
-    return f
-
-
-def error_scale(kind):
-    """Denominator of the error: 1 for an absolute error, |f| for a relative one."""
-    if kind == "abs":
-        return lambda fy: np.ones_like(np.asarray(fy, dtype=np.float64))
-    return lambda fy: np.abs(np.asarray(fy, dtype=np.float64))
 
 
 # ------------------------------------------------------------------------------------------
@@ -1152,20 +1134,10 @@ def verify_grid(grid, f, scale, n, seed):
 
 
 def _format_floor_1d(table, f, scale):
-    lo, hi = table.lo, table.hi
     if table.integer:
         x = table.row_inputs()
         return float(np.max(0.5 * table.scale_out / scale(f(x))))
-    ft = FLOAT_FORMATS[table.fmt]
-    x = np.linspace(lo, hi, 4097)
-    if lo > 0 and hi / lo > 1.5:
-        x = np.concatenate([x, np.geomspace(lo, hi, 4097)])
-    x = np.unique(x)
-    fx = f(x)
-    dfdx = np.gradient(fx, x)
-    ulp_in = np.spacing(x.astype(ft)).astype(np.float64)
-    ulp_out = np.spacing(np.abs(fx).astype(ft)).astype(np.float64)
-    return float(np.max((0.5 * ulp_out + 0.5 * np.abs(dfdx) * ulp_in) / scale(fx)))
+    return format_floor(f, scale, table.lo, table.hi, table.fmt)
 
 
 def _format_floor_2d(grid, f, scale):
@@ -2061,13 +2033,6 @@ def audit_report_json(audit):
         "tables": [audit_record(audit)],
     }
     return json.dumps(doc, indent=2, sort_keys=False, allow_nan=False) + "\n"
-
-
-def _md(s):
-    s = " ".join(str(s).split())
-    for ch in "\\`*_[]<>|#":
-        s = s.replace(ch, "\\" + ch)
-    return s
 
 
 def _err_text(spec, e):

@@ -6,7 +6,7 @@ control (refitting with a tighter budget until the emulated target arithmetic me
 tolerance), picks the one that best meets the goal, and verifies it densely.
 
 Offers ``Table``, ``build_table(ts)``, ``BuildError``, ``core_function(ts)``,
-``error_scale(kind)``, ``estimated_ops(pw)``.
+``error_scale(kind)``, ``format_floor(...)``, ``estimated_ops(pw)``.
 """
 
 import hashlib
@@ -94,13 +94,16 @@ def build_grid_table(ts, progress=None):
 
 
 def core_function(ts):
-    """f(x) in the user's units: the core at the SI image of ``x``, converted to the output unit."""
-    inp = ts.inputs[0]
+    """The core in the table's units: ``f(x)`` for one input, ``f(a, b)`` for two; NaN where
+    the core has no value. ``ts`` needs ``quantity``, ``inputs`` (with ``quantity``, ``scale``,
+    ``offset``), ``out_scale`` and ``out_offset`` (a table spec or an audit spec)."""
+    ins = ts.inputs
     qid = ts.quantity
 
-    def f(x):
-        si = np.asarray(x, dtype=np.float64) * inp.scale + inp.offset
-        y = Q.evaluate(qid, mask=True, **{inp.quantity: si})
+    def f(*xs):
+        si = {inp.quantity: np.asarray(x, dtype=np.float64) * inp.scale + inp.offset
+              for inp, x in zip(ins, xs)}
+        y = Q.evaluate(qid, mask=True, **si)
         return (np.asarray(y, dtype=np.float64) - ts.out_offset) / ts.out_scale
     return f
 
@@ -151,7 +154,7 @@ def _seed(ts, salt):
     return int.from_bytes(h[:8], "little")
 
 
-def _floor(f, scale, lo, hi, fmt):
+def format_floor(f, scale, lo, hi, fmt):
     """Error from rounding the input and the output to ``fmt`` alone (no approximation)."""
     ft = arith.FORMATS[fmt]
     x = np.linspace(lo, hi, 4097)
@@ -267,7 +270,7 @@ def build_table(ts, progress=None):
         raise BuildError(f"table {ts.name!r}: the core gives no value over part of the range")
     monotone = _monotone(fx)
     balance = _curvature(fx, ts.tol_kind)
-    floor = _floor(f, scale, lo, hi, fmt)
+    floor = format_floor(f, scale, lo, hi, fmt)
     unit = ts.output_unit if ts.tol_kind == "abs" else "(relative)"
     if tol < 3.0 * floor:
         feasible = float(f"{3.0 * floor:.2g}")
