@@ -253,6 +253,9 @@ def build_table(ts, progress=None):
     """Fit and verify one table spec; raises :class:`BuildError` when it cannot be met."""
     if ts.domain is not None:
         return build_grid_table(ts, progress)
+    if ts.phase == "wet":
+        from .wet import build_wet_table
+        return build_wet_table(ts, progress)
     inp = ts.inputs[0]
     fmt = ts.arithmetic
     ft = arith.FORMATS[fmt]
@@ -414,3 +417,36 @@ def build_table(ts, progress=None):
         from .sensor import budget
         table.budget = budget(table, f)
     return table
+
+
+def build_helper_table(quantity, inp, out_unit, out_scale, out_offset, tol_kind, tol, fmt,
+                       goal="smallest", name="helper", verify_points=20_000, layouts=None):
+    """A one-input table that a larger function keeps beside it (a saturation value of
+    pressure, say): built by :func:`build_table` with an explicit piecewise layout for each
+    of ``layouts`` (``binade`` where the input is positive, and ``free``, by default) so that
+    the one-input C macro renders it, and the better one for ``goal`` returned. Raises
+    :class:`BuildError` (the last layout's) when none can be built."""
+    from .spec import TableSpec
+    if layouts is None:
+        layouts = ["binade", "free"] if inp.lo > 0 else ["free"]
+    best, last = None, None
+    for layout in layouts:
+        ts = TableSpec(name=name, function=f"h2olut_{name}", quantity=quantity,
+                       description=f"{name}: helper table of a two-input function",
+                       inputs=(inp,), output_unit=out_unit, out_scale=out_scale,
+                       out_offset=out_offset, tol_kind=tol_kind, tol_value=float(tol),
+                       arithmetic=fmt, policy="clamp", goal=goal, layout=layout,
+                       verify_points=verify_points)
+        try:
+            t = build_table(ts)
+        except BuildError as e:
+            last = e
+            continue
+        pw = t.piecewise
+        key = ((pw.storage_bytes, estimated_ops(pw)) if goal == "smallest"
+               else (estimated_ops(pw), pw.storage_bytes))
+        if best is None or key < best[0]:
+            best = (key, t)
+    if best is None:
+        raise last
+    return best[1]

@@ -98,18 +98,19 @@ def build(spec, outdir):
         raise InputError(f"{outdir}: cannot write the outputs ({e.strerror})") from None
     for t in tables:
         ts, v = t.spec, t.verification
-        if getattr(t, "gt", None) is not None:
-            g = t.gt.grid
-            err = (f"{v['max_error']:.3g} {ts.output_unit} (tolerance {ts.tol_value:g})"
-                   if ts.tol_kind == "abs" else
-                   f"{v['max_error'] * 100:.3g} % (tolerance {ts.tol_value * 100:g} %)")
-            click.echo(f"{ts.function}: {g.nx} x {g.ny} {g.method} grid, {g.storage_bytes} "
-                       f"bytes, max error {err} on {v['points']} points")
-            continue
         if ts.tol_kind == "abs":
             err = f"{v['max_error']:.3g} {ts.output_unit} (tolerance {ts.tol_value:g})"
         else:
             err = f"{v['max_error'] * 100:.3g} % (tolerance {ts.tol_value * 100:g} %)"
+        if getattr(t, "gt", None) is not None:
+            g = t.gt.grid
+            click.echo(f"{ts.function}: {g.nx} x {g.ny} {g.method} grid, {g.storage_bytes} "
+                       f"bytes, max error {err} on {v['points']} points")
+            continue
+        if getattr(t, "combine", None) is not None:
+            click.echo(f"{ts.function}: wet steam from {len(t.members)} saturation tables, "
+                       f"{t.storage_bytes} bytes, max error {err} on {v['points']} points")
+            continue
         click.echo(f"{ts.function}: {t.piecewise.nseg} x degree {t.piecewise.degree} "
                    f"({t.piecewise.layout}), {t.piecewise.storage_bytes} bytes, max error "
                    f"{err} on {v['points']} points")

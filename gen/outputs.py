@@ -12,9 +12,9 @@ from pathlib import Path
 from . import __version__
 from .build import build_table, core_function, error_scale
 from .emit.c import render_c
-from .emit.common import generator_digest
+from .emit.common import generator_digest, table_kind
 from .emit.python import render_python
-from .report import error_map, error_plot, report_json, report_markdown
+from .report import error_map, error_map_wet, error_plot, report_json, report_markdown
 
 
 def build_spec(spec, progress=None):
@@ -30,7 +30,7 @@ def build_spec(spec, progress=None):
 def render_outputs(spec, tables):
     """Every output file's bytes. Same spec and generator version give the same bytes."""
     base = spec.name
-    refs = {t.name: core_function(t.spec) for t in tables if getattr(t, "gt", None) is None}
+    refs = {t.name: core_function(t.spec) for t in tables if table_kind(t) == "one"}
     files = {}
     for name, text in render_c(spec, tables, base, refs).items():
         files[name] = text.encode("utf-8")
@@ -39,8 +39,10 @@ def render_outputs(spec, tables):
     plots = {}
     for t in tables:
         png = f"{base}_{t.name}_error.png"
-        if getattr(t, "gt", None) is not None:
+        if table_kind(t) == "grid":
             files[png] = error_map(t)
+        elif table_kind(t) == "wet":
+            files[png] = error_map_wet(t)
         else:
             files[png] = error_plot(t, refs[t.name], error_scale(t.spec.tol_kind))
         plots[t.name] = png

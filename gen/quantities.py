@@ -57,6 +57,10 @@ CATALOGUE = {q.id: q for q in [
              "specific entropy of saturated liquid", "saturation"),
     Quantity("saturated_vapor_entropy", "specific_entropy", _SAT_IN,
              "specific entropy of saturated vapour", "saturation"),
+    Quantity("saturated_liquid_volume", "specific_volume", _SAT_IN,
+             "specific volume of saturated liquid", "saturation"),
+    Quantity("saturated_vapor_volume", "specific_volume", _SAT_IN,
+             "specific volume of saturated vapour", "saturation"),
     Quantity("surface_tension", "surface_tension", _SAT_IN,
              "surface tension of water against its vapour", "saturation"),
     Quantity("density", "density", _PT, "density", "single_phase"),
@@ -79,6 +83,9 @@ CATALOGUE = {q.id: q for q in [
     Quantity("temperature", "temperature",
              (("pressure", "specific_enthalpy"), ("pressure", "specific_entropy")),
              "temperature (backward)", "backward"),
+    Quantity("quality", "dimensionless",
+             (("pressure", "specific_enthalpy"), ("pressure", "specific_entropy")),
+             "vapour mass fraction of wet steam (0 saturated liquid, 1 saturated vapour)", "wet"),
 ]}
 
 #: input kind of each input name
@@ -97,6 +104,8 @@ _SAT_KEY = {"saturated_liquid_density": ("liquid", "rho"),
             "saturated_liquid_enthalpy": ("liquid", "h"),
             "saturated_vapor_enthalpy": ("vapor", "h"),
             "saturated_liquid_entropy": ("liquid", "s"),
+            "saturated_liquid_volume": ("liquid", "v"),
+            "saturated_vapor_volume": ("vapor", "v"),
             "saturated_vapor_entropy": ("vapor", "s")}
 
 def _p_sat(T):
@@ -131,6 +140,8 @@ def input_range(quantity, names):
     q = CATALOGUE[quantity]
     if q.family == "saturation":
         return {n: SATURATION_RANGE[n] for n in names}
+    if q.family == "wet":
+        return {n: SATURATION_RANGE.get(n, (-np.inf, np.inf)) for n in names}
     box = {"pressure": (0.0, K.P_MAX), "temperature": (K.T_MIN, K.T_MAX)}
     return {n: box.get(n, (-np.inf, np.inf)) for n in names}
 
@@ -181,6 +192,24 @@ def _saturation(quantity, inputs, mask):
     return out[()] if np.ndim(out) == 0 else out
 
 
+def _quality(p, inputs, mask):
+    from .if97 import core
+    if "specific_enthalpy" in inputs:
+        name, a, unit = "specific_enthalpy", inputs["specific_enthalpy"], "J/kg"
+        x = core.quality_ph(p, a)
+    else:
+        name, a, unit = "specific_entropy", inputs["specific_entropy"], "J/(kg K)"
+        x = core.quality_ps(p, a)
+    if not mask and np.any(np.isnan(x)):
+        pb, ab = np.broadcast_arrays(p, np.asarray(a, dtype=np.float64))
+        i = np.flatnonzero(np.isnan(np.asarray(x)).ravel())[0]
+        raise OutOfRange(f"{name} = {_fmt(ab.ravel()[i])} {unit} at pressure = "
+                         f"{_fmt(pb.ravel()[i])} Pa is not wet steam (outside the two-phase "
+                         f"region between saturated liquid and vapour, which ends below "
+                         f"{_fmt(K.PC)} Pa)")
+    return x[()] if np.ndim(x) == 0 else x
+
+
 def evaluate(quantity, *, mask=False, phase=None, **inputs):
     """Evaluate ``quantity`` of the core at the given SI inputs (see module docstring)."""
     if quantity not in CATALOGUE:
@@ -204,6 +233,8 @@ def _evaluate(q, quantity, inputs, mask, phase):
         return _saturation(quantity, inputs, mask)
     from .if97 import core
     p = np.asarray(inputs["pressure"], dtype=np.float64)
+    if q.family == "wet":
+        return _quality(p, inputs, mask)
     if q.family == "backward":
         if "specific_enthalpy" in inputs:
             out = core.temperature_ph(p, inputs["specific_enthalpy"], mask=mask)

@@ -11,7 +11,7 @@ import json
 import numpy as np
 
 from . import __version__
-from .emit.common import CAUTION, generator_digest, summary
+from .emit.common import CAUTION, generator_digest, summary, table_kind
 
 SCHEMA_VERSION = "h2olut-report/1"
 
@@ -130,6 +130,59 @@ def table_record_2d(table):
     return rec
 
 
+def table_record_wet(table):
+    """The per-table record of a wet-steam table (same keys as the others), with its member
+    saturation tables, the run time's quality error and how the dome status behaved."""
+    ts, wt, v = table.spec, table, table.verification
+    pin, ain = ts.inputs
+    rec = {
+        "name": ts.name,
+        "function": ts.function,
+        "quantity": ts.quantity,
+        "description": ts.description,
+        "inputs": [{"quantity": "pressure", "unit": pin.unit, "min": float(wt.p_lo),
+                    "max": float(wt.p_hi),
+                    **({"atmosphere_pa": pin.atmosphere} if pin.atmosphere else {})},
+                   {"quantity": ain.quantity, "unit": ain.unit, "min": float(ain.lo),
+                    "max": float(ain.hi), "range": "saturated liquid to saturated vapour"}],
+        "output": {"quantity": ts.quantity, "unit": ts.output_unit},
+        "arithmetic": wt.fmt,
+        "tolerance": _tol(ts),
+        "storage_bytes": wt.storage_bytes,
+        "max_error": {ts.tol_kind: v["max_error"]},
+        "max_error_at": [float(v["at"][0]), float(v["at"][1])],
+        "verification_points": v["points"],
+        "verification": {
+            "method": "sampled",
+            "reference": "h2olut IF97 core (float64)",
+            "counts": v["counts"],
+            "seed": v["seed"],
+            "rms_error": v["rms_error"],
+            "max_error_with_fma": v.get("max_error_fused"),
+            "format_floor": wt.floor,
+            "quality_max_error": v["quality_max_error"],
+            "dome_status": {k: v[k] for k in (
+                "inside_flagged_outside", "inside_flagged_max_depth", "outside_points",
+                "outside_missed", "outside_missed_max_depth")},
+        },
+        "method": {
+            "kind": "wet_steam",
+            "combine": wt.combine,
+            "phase": "wet",
+            "stored_values": wt.stored_values(),
+            "out_of_range": wt.policy,
+            "goal": ts.goal,
+            "tables": [{"role": role, **table_record(t)} for role, t in wt.members.items()],
+        },
+        "candidates": _clean(wt.candidates),
+        "notes": list(wt.notes),
+    }
+    for m in rec["method"]["tables"]:
+        for k in ("description", "candidates", "notes"):
+            m.pop(k, None)
+    return rec
+
+
 def _clean(rows):
     """Candidate rows as plain JSON values, without timings (the report must not depend on
     how fast the machine was)."""
@@ -149,7 +202,8 @@ def report_json(spec, tables):
         "spec": {"file": spec.source_name, "sha256": spec.sha256, "name": spec.name,
                  "prefix": spec.prefix},
         "caution": CAUTION,
-        "tables": [table_record_2d(t) if _is_two(t) else table_record(t) for t in tables],
+        "tables": [{"grid": table_record_2d, "wet": table_record_wet,
+                    "one": table_record}[table_kind(t)](t) for t in tables],
     }
     return json.dumps(doc, indent=2, sort_keys=False, allow_nan=False) + "\n"
 
@@ -172,6 +226,14 @@ def report_markdown(spec, tables, plots):
     lines += ["| function | quantity | input range | tolerance | verified max error | points | storage | method |",
               "|---|---|---|---|---|---|---|---|"]
     for t in tables:
+        if table_kind(t) == "wet":
+            from .wet import wet_summary
+            g = wet_summary(t)
+            lines.append(f"| `{t.spec.function}` | {_md(t.spec.quantity)} [{_md(g['output_unit'])}] | "
+                         f"{_md(g['domain'])} | {_md(g['tolerance'])} | {_md(g['max_error'])} | "
+                         f"{g['points']} | {_md(g['storage'])} | wet steam from saturation "
+                         f"tables |")
+            continue
         if _is_two(t):
             from .fit.grid2d import grid_summary
             g = grid_summary(t.gt)
@@ -187,6 +249,9 @@ def report_markdown(spec, tables, plots):
               "on the emulated target arithmetic against the IF97 core. It is a measurement, not "
               "a proof of a bound.", ""]
     for t in tables:
+        if table_kind(t) == "wet":
+            lines += _markdown_wet(t, plots.get(t.name))
+            continue
         if _is_two(t):
             lines += _markdown_2d(t, plots.get(t.name))
             continue
@@ -282,6 +347,94 @@ def _markdown_2d(t, plot):
         lines += ["", f"![error of {t.spec.function}]({plot})"]
     lines.append("")
     return lines
+
+
+def _markdown_wet(t, plot):
+    from .wet import wet_summary
+    g = wet_summary(t)
+    v = t.verification
+    lines = [f"## `{t.spec.function}`: {_md(g['quantity'])} of wet steam from pressure and "
+             f"{_md(g['second'])}", ""]
+    if t.spec.description:
+        lines += [_md(t.spec.description), ""]
+    lines += [
+        f"- domain: {_md(g['domain'])}",
+        f"- output: {_md(g['quantity'])} in {_md(g['output_unit'])}, {t.fmt}",
+        f"- tolerance: {_md(g['tolerance'])}",
+        f"- verified: {_md(g['verified'])}",
+        f"- with fused multiply-add (emulated): {_md(g['fused']) if g['fused'] else 'not modelled for this format'}",
+        f"- method: {_md(g['method'])}",
+        f"- storage: {_md(g['storage'])}",
+        f"- outside: {_md(g['policy'])}",
+        f"- dome status: {_md(g['dome'])}",
+        f"- points: {_md(', '.join(f'{k} {n}' for k, n in v['counts'].items()))}; "
+        f"{v['outside_points']} more outside the dome for the status",
+    ]
+    for n in t.notes:
+        lines.append(f"- note: {_md(n)}")
+    lines += ["", "Saturation tables inside it:", "",
+              "| role | quantity | tolerance | verified | segments | degree | layout | bytes |",
+              "|---|---|---|---|---|---|---|---|"]
+    for role, m in t.members.items():
+        s = summary(m)
+        lines.append(f"| {role} | {_md(s['quantity'])} [{_md(s['output_unit'])}] | "
+                     f"{_md(s['tolerance'])} | {_md(s['max_error'])} | {m.piecewise.nseg} | "
+                     f"{m.piecewise.degree} | {m.piecewise.layout} | {m.piecewise.storage_bytes} |")
+    lines += ["", "Builds tried (each tightens the saturation tables when the whole function "
+              "missed):", "", "| try | storage bytes | est. operations | max error | met |",
+              "|---|---|---|---|---|"]
+    for c in t.candidates:
+        err = c.get("max_error", c["quick_max_error"])
+        lines.append(f"| {c['attempt']}{' (chosen)' if c.get('chosen') else ''} | "
+                     f"{c['storage_bytes']} | {c['estimated_ops']} | {err:.3g} | "
+                     f"{'yes' if c['met'] else 'no'} |")
+    if plot:
+        lines += ["", f"![error of {t.spec.function}]({plot})"]
+    lines.append("")
+    return lines
+
+
+def error_map_wet(table):
+    """PNG bytes: a wet-steam table's error over the dome (heat map in tolerance units) in
+    (pressure, second input), with the saturated-liquid and saturated-vapour lines drawn."""
+    import matplotlib
+    matplotlib.use("Agg")
+    from matplotlib.figure import Figure
+    from .wet import _dome, reference
+
+    ts, wt = table.spec, table
+    pin, ain = ts.inputs
+    lo, hi = float(wt.p_lo), float(wt.p_hi)
+    logp = lo > 0 and hi / lo > 20
+    P1 = np.geomspace(lo, hi, 241) if logp else np.linspace(lo, hi, 241)
+    al, av = _dome(ts, P1)
+    A1 = np.linspace(float(al.min()), float(av.max()), 241)
+    P, A = np.meshgrid(P1, A1, indexing="ij")
+    _, truth = reference(ts, P.ravel(), A.ravel())
+    inside = np.isfinite(truth)
+    E = np.full(P.size, np.nan)
+    sc = np.abs(truth[inside]) if ts.tol_kind == "rel" else 1.0
+    E[inside] = (wt(P.ravel()[inside], A.ravel()[inside]).astype(np.float64)
+                 - truth[inside]) / sc / ts.tol_value
+    E = E.reshape(P.shape)
+    fig = Figure(figsize=(8, 4.2), dpi=100)
+    ax = fig.add_subplot(1, 1, 1)
+    m = ax.pcolormesh(P, A, E, shading="auto", cmap="coolwarm", vmin=-1, vmax=1)
+    fig.colorbar(m, ax=ax, label="error / tolerance")
+    ax.plot(P1, al, color="k", lw=1.2, label="saturated liquid")
+    ax.plot(P1, av, color="k", lw=1.2, ls="--", label="saturated vapour")
+    if logp:
+        ax.set_xscale("log")
+    ax.set_xlim(lo, hi)
+    ax.set_xlabel(f"pressure [{pin.unit}]")
+    ax.set_ylabel(f"{ain.quantity.replace('_', ' ')} [{ain.unit}]")
+    ax.set_title(f"{ts.function}: wet steam, {len(wt.members)} saturation tables, {wt.fmt}",
+                 fontsize=9)
+    ax.legend(loc="upper left", fontsize=7)
+    fig.subplots_adjust(left=0.1, right=0.98, top=0.9, bottom=0.13)
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", metadata={"Software": None})
+    return buf.getvalue()
 
 
 def error_map(table):

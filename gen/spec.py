@@ -56,7 +56,7 @@ _TABLE_KEYS = {"name", "quantity", "description", "output_unit", "tolerance", "a
 _INPUT_KEYS = {"unit", "min", "max", "atmosphere"}
 _RELATIVE_KEYS = {"min_above_saturation", "max_above_saturation", "min_below_saturation",
                   "max_below_saturation"}
-PHASES = ("vapor", "liquid", "supercritical")
+PHASES = ("vapor", "liquid", "supercritical", "wet")
 
 
 class SpecError(ValueError):
@@ -223,6 +223,8 @@ def _table(source, index, t, prefix, default_vp):
     for k in t:
         if k not in _TABLE_KEYS and k not in Q.INPUT_KIND:
             _err(source, label, k, f"unknown key; allowed: {', '.join(sorted(_TABLE_KEYS | set(Q.INPUT_KIND)))}")
+    if t.get("phase") == "wet" or q.family == "wet":
+        return _table_wet(source, label, t, qid, input_names, function, tname, default_vp)
     match = [tup for tup in q.inputs if set(tup) == set(input_names)]
     if not match:
         want = " or ".join("[" + ", ".join(tup) + "]" for tup in q.inputs)
@@ -414,3 +416,70 @@ def _table2d(source, label, t, qid, order, function, tname, default_vp):
                      out_offset=ooffset, tol_kind=kind, tol_value=value,
                      arithmetic=arithmetic, policy=policy, goal=goal, verify_points=vp,
                      domain=dom, phase=phase)
+
+
+def _table_wet(source, label, t, qid, input_names, function, tname, default_vp):
+    """A wet-steam table: quality or a mixture property from pressure and specific enthalpy
+    (or entropy); its second input's range is the two-phase dome itself."""
+    from .wet import OUTPUTS, P_WET_MAX
+    if t.get("phase", "wet") != "wet":
+        _err(source, label, "phase", f"{qid} is a wet-steam quantity: phase must be 'wet', "
+             f"not {t['phase']!r}")
+    if qid not in OUTPUTS:
+        _err(source, label, "quantity", f"a wet-steam table gives one of "
+             f"{', '.join(sorted(OUTPUTS))}, not {qid!r}")
+    for k in ("degree", "layout", "sensor"):
+        if k in t:
+            _err(source, label, k, "is for one-input tables; a wet-steam table chooses its "
+                 "saturation tables itself")
+    want = [["pressure", "specific_enthalpy"], ["pressure", "specific_entropy"]]
+    if sorted(input_names) not in [sorted(w) for w in want]:
+        _err(source, label, "inputs", f"wet steam takes [pressure, specific_enthalpy] or "
+             f"[pressure, specific_entropy] as input tables; got [{', '.join(input_names)}]")
+    second = next(n for n in input_names if n != "pressure")
+    if qid == "specific_enthalpy" and second == "specific_enthalpy" or \
+            qid == "specific_entropy" and second == "specific_entropy":
+        _err(source, label, "quantity", f"{qid} is the input itself; choose another output")
+    (description, out_unit, oscale, ooffset, kind, value, arithmetic, policy,
+     goal) = _common(source, label, t, qid)
+    if qid == "quality" and kind != "abs":
+        _err(source, label, "tolerance", "quality runs from 0 to 1: give { abs = X } "
+             "(0.001 is a tenth of a percent of steam), not a relative tolerance")
+    if qid == "quality" and value >= 0.1:
+        _err(source, label, "tolerance.abs", f"must be below 0.1 for quality, not {_fmt(value)}")
+    vp = _verify_points(source, label, t.get("verify_points", default_vp))
+    pin = _input(source, label, qid, "pressure", t["pressure"])
+    hi_si = pin.hi * pin.scale + pin.offset
+    if hi_si > P_WET_MAX * (1 + 1e-12):
+        gauge = " gauge" if pin.atmosphere is not None else ""
+        _err(source, label, "pressure.max", f"{_fmt(pin.hi)} {pin.unit}{gauge} is too close "
+             f"to the critical point for wet steam (quality is ill-conditioned there); "
+             f"valid: {_fmt(Q.P_SAT_MIN)} to {_fmt(P_WET_MAX)} Pa, i.e. up to "
+             f"{_fmt((P_WET_MAX - pin.offset) / pin.scale)} {pin.unit}{gauge}")
+    d = t[second]
+    if not isinstance(d, dict):
+        _err(source, label, second, "must be a table like { unit = \"kJ/kg\" }")
+    for k in d:
+        if k != "unit":
+            _err(source, label, f"{second}.{k}", "a wet-steam table takes only 'unit' here: "
+                 "its range is the dome itself (saturated liquid to saturated vapour at each "
+                 "pressure)")
+    kind2 = Q.INPUT_KIND[second]
+    vunit = d.get("unit", U.DIMENSIONS[kind2])
+    if not isinstance(vunit, str):
+        _err(source, label, f"{second}.unit", "must be a unit name string")
+    try:
+        vscale, voffset = U.to_si_map(vunit, kind2)
+    except U.UnitError as e:
+        _err(source, label, f"{second}.unit", str(e))
+    p = np.linspace(pin.lo, pin.hi, 257) * pin.scale + pin.offset
+    side = "enthalpy" if second == "specific_enthalpy" else "entropy"
+    a_lo = float(np.min(Q.evaluate(f"saturated_liquid_{side}", pressure=p)))
+    a_hi = float(np.max(Q.evaluate(f"saturated_vapor_{side}", pressure=p)))
+    vin = InputSpec(quantity=second, unit=vunit, lo=(a_lo - voffset) / vscale,
+                    hi=(a_hi - voffset) / vscale, scale=vscale, offset=voffset)
+    return TableSpec(name=tname, function=function, quantity=qid, description=description,
+                     inputs=(pin, vin), output_unit=out_unit, out_scale=oscale,
+                     out_offset=ooffset, tol_kind=kind, tol_value=value,
+                     arithmetic=arithmetic, policy=policy, goal=goal, verify_points=vp,
+                     phase="wet")

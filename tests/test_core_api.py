@@ -52,7 +52,8 @@ EXPECTED = {
 CONSISTENCY = {"isochoric_heat_capacity", "isentropic_exponent", "dynamic_viscosity",
                "thermal_conductivity", "saturated_liquid_density", "saturated_vapor_density",
                "saturated_liquid_enthalpy", "saturated_vapor_enthalpy", "latent_heat",
-               "saturated_liquid_entropy", "saturated_vapor_entropy"}
+               "saturated_liquid_entropy", "saturated_vapor_entropy",
+               "saturated_liquid_volume", "saturated_vapor_volume", "quality"}
 
 
 def test_every_catalogue_id_is_covered_here():
@@ -100,7 +101,8 @@ def test_saturation_consistency_quantities(T):
     liq, vap = core.saturated_states(T)
     side = {"liquid": liq, "vapor": vap}
     for s in ("liquid", "vapor"):
-        for key, name in (("rho", "density"), ("h", "enthalpy"), ("s", "entropy")):
+        for key, name in (("rho", "density"), ("h", "enthalpy"), ("s", "entropy"),
+                          ("v", "volume")):
             qid = f"saturated_{s}_{name}"
             by_T = evaluate(qid, temperature=T)
             assert isinstance(by_T, float) and by_T == side[s][key][()]
@@ -114,6 +116,13 @@ def test_saturation_consistency_quantities(T):
         assert vap["rho"] == pytest.approx(region2.props(ps, T)["rho"], rel=1e-14)
     assert evaluate("saturated_liquid_density", temperature=T) > evaluate(
         "saturated_vapor_density", temperature=T)
+    assert evaluate("saturated_vapor_volume", temperature=T) == pytest.approx(
+        1.0 / vap["rho"], rel=1e-14)
+    # quality: 0 and 1 on the saturated states, the lever rule between (x = 0.3 here)
+    h = liq["h"] + 0.3 * (vap["h"] - liq["h"])
+    assert evaluate("quality", pressure=ps, specific_enthalpy=h) == pytest.approx(0.3, abs=1e-9)
+    with pytest.raises(OutOfRange, match="not wet steam"):
+        evaluate("quality", pressure=ps, specific_enthalpy=vap["h"] + 1e4)
 
 
 # ---------------------------------------------------------------------------------------------

@@ -10,7 +10,8 @@ Offers ``c_context(spec, tables, base)``, ``render_c(spec, tables, base)`` -> {f
 import numpy as np
 
 from .. import arith
-from .common import CAUTION, c_comment, decimal, hex_literal, provenance, summary, template_env
+from .common import (CAUTION, c_comment, decimal, hex_literal, provenance, summary,
+                     table_kind, template_env)
 
 #: random points per table in the C test-vector program (besides the directed ones)
 RANDOM_VECTORS = 500
@@ -182,29 +183,57 @@ def vectors_context_2d(table):
             "wrong": wrong}
 
 
+def vectors_context_wet(table):
+    """Rows (p, a, expected bits and status, reference) for a wet-steam table's vectors."""
+    from ..wet import reference, wet_vector_points
+    fmt = table.fmt
+    ft = arith.FORMATS[fmt]
+    P, A = wet_vector_points(table)
+    y = table(P, A).astype(ft)
+    st = table.status(P, A)
+    _, ref = reference(table.spec, P, A)
+    lo, hi = float(table.p_lo), float(table.p_hi)
+    ref = np.where((P < lo) | (P > hi), np.nan, ref)
+    utype = np.uint32 if fmt == "float32" else np.uint64
+    bits = y.view(utype)
+    rows = [{"p": hex_literal(p, fmt), "a": hex_literal(a, fmt),
+             "bits": f"0x{int(bi):0{8 if fmt == 'float32' else 16}x}u", "status": int(s),
+             "is_nan": int(np.isnan(yi)),
+             "ref": "(double)NAN" if np.isnan(r) else repr(float(r))}
+            for p, a, bi, s, yi, r in zip(P, A, bits, st, y, ref)]
+    return {"rows": rows, "count": len(rows), "tol_kind": table.spec.tol_kind,
+            "tol": repr(float(table.spec.tol_value))}
+
+
 def render_c(spec, tables, base, references):
     """Render NAME.h, NAME.c and NAME_vectors.c; ``references[name]`` is the core in user units."""
     env = template_env()
     guard = "".join(ch if ch.isalnum() else "_" for ch in base).upper() + "_H"
     from ..fit.grid2d import grid_c_context
     ctxs = []
+    from ..wet import wet_c_context
     for t in tables:
-        if getattr(t, "gt", None) is not None:
+        kind = table_kind(t)
+        if kind == "grid":
             c = grid_c_context(t.gt, t.spec.function, t.spec.name)
-            c["is_grid"] = True
             c["vec"] = vectors_context_2d(t)
+        elif kind == "wet":
+            c = wet_c_context(t)
+            c["vec"] = vectors_context_wet(t)
         else:
             c = table_context(t)
-            c["is_grid"] = False
             c["vec"] = vectors_context(t, references[t.name])
+        c["is_grid"] = kind == "grid"
+        c["is_wet"] = kind == "wet"
         ctxs.append(c)
     ctx = {"p": provenance(spec), "caution": CAUTION, "base": base, "guard": guard,
            "PRE": spec.prefix.upper(), "pre": spec.prefix,
            "spec_description": c_comment(spec.description), "tables": ctxs,
-           "any_two": any(c["is_grid"] for c in ctxs)}
-    ctx["needs_string"] = any(c["needs_string"] if c["is_grid"] else c["layout"] == "binade"
-                              for c in ctxs)
-    ctx["needs_math"] = any(c["needs_math"] if c["is_grid"]
+           "any_two": any(c["is_grid"] for c in ctxs),
+           "any_wet": any(c["is_wet"] for c in ctxs)}
+    ctx["needs_string"] = any(c["needs_string"] if c["is_grid"] or c["is_wet"]
+                              else c["layout"] == "binade" for c in ctxs)
+    ctx["needs_math"] = any(c["needs_math"] if c["is_grid"] or c["is_wet"]
                             else (c["policy"] == "nan" or c["layout"] == "closed_form")
                             for c in ctxs)
     return {f"{base}.h": env.get_template("c_header.h.j2").render(ctx),

@@ -1,7 +1,7 @@
 """What every emitter shares: literal formatting, escaping of spec text, the per-table summary.
 
 Offers ``hex_literal``, ``c_comment``, ``py_comment``, ``summary(table)``, ``CAUTION``,
-``template_env()``, ``provenance(spec)``.
+``template_env()``, ``provenance(spec)``, ``table_kind(t)``.
 """
 
 import math
@@ -156,3 +156,12 @@ def summary(table):
         "ctype": ctype,
         "coefficients": coefficients,
     }
+
+
+def table_kind(t):
+    """``one``, ``grid`` or ``wet``: which view renders the built table ``t``."""
+    if getattr(t, "gt", None) is not None:
+        return "grid"
+    if getattr(t, "combine", None) is not None:
+        return "wet"
+    return "one"

@@ -10,7 +10,7 @@ import numpy as np
 
 from .. import arith
 from .c import table_context
-from .common import CAUTION, provenance, template_env
+from .common import CAUTION, provenance, table_kind, template_env
 
 
 def _hex_list(values, per_line=3):
@@ -65,22 +65,28 @@ def render_python(spec, tables, base):
     env = template_env()
     runtime = Path(arith.__file__).read_text(encoding="utf-8").rstrip() + "\n"
     ctxs = []
-    any_two = False
+    kinds = set()
     for t in tables:
-        if getattr(t, "gt", None) is not None:
+        kind = table_kind(t)
+        kinds.add(kind)
+        if kind == "grid":
             from ..fit.grid2d import grid_c_context
             c = grid_c_context(t.gt, t.spec.function, t.spec.name)
-            c["is_grid"] = True
             c["py_tab"] = py_literal(t.gt.grid.runtime(), t.gt.grid.fmt)
-            any_two = True
+        elif kind == "wet":
+            from ..wet import wet_c_context
+            c = wet_c_context(t)
+            c["py_tab"] = py_literal(t.runtime(), t.fmt)
         else:
             c = table_context(t)
-            c["is_grid"] = False
             c["py"] = _py_table(t)
+        c["is_grid"] = kind == "grid"
+        c["is_wet"] = kind == "wet"
         ctxs.append(c)
-    if any_two:
-        from .. import arith2d
-        runtime += "\n\n" + Path(arith2d.__file__).read_text(encoding="utf-8").rstrip() + "\n"
+    from .. import arith2d, arith_wet
+    for kind, mod in (("grid", arith2d), ("wet", arith_wet)):
+        if kind in kinds:
+            runtime += "\n\n" + Path(mod.__file__).read_text(encoding="utf-8").rstrip() + "\n"
     ctx = {"p": provenance(spec), "caution": CAUTION, "base": base, "tables": ctxs,
            "runtime": runtime}
     return {f"{base}.py": env.get_template("python_module.py.j2").render(ctx)}

@@ -203,11 +203,20 @@ def temperature_ps(p, s, mask=False):
 
 def quality_ph(p, h):
     """Vapour mass fraction x = (h - h') / (h'' - h') in the wet region; NaN outside it."""
-    p, h = np.broadcast_arrays(np.asarray(p, dtype=np.float64), np.asarray(h, dtype=np.float64))
+    return _quality(p, h, "h")
+
+
+def quality_ps(p, s):
+    """Vapour mass fraction x = (s - s') / (s'' - s') in the wet region; NaN outside it."""
+    return _quality(p, s, "s")
+
+
+def _quality(p, a, key):
+    p, a = np.broadcast_arrays(np.asarray(p, dtype=np.float64), np.asarray(a, dtype=np.float64))
     ok = (p >= 611.212677) & (p < 22.064e6)
     T = region4.saturation_temperature(np.where(ok, p, 1e5))
     liq, vap = saturated_states(T)
-    x = (h - liq["h"]) / (vap["h"] - liq["h"])
+    x = (a - liq[key]) / (vap[key] - liq[key])
     return np.where(ok & (x >= 0) & (x <= 1), x, np.nan)
 
 
@@ -230,6 +239,6 @@ def mixture_p(p, x):
 
 
 __all__ = ["saturation_pressure", "saturation_temperature", "dpsat_dT", "saturated_states",
-           "props_pT", "temperature_ph", "temperature_ps", "quality_ph", "mixture_T", "mixture_p",
-           "surface_tension",
+           "props_pT", "temperature_ph", "temperature_ps", "quality_ph", "quality_ps",
+           "mixture_T", "mixture_p", "surface_tension",
            "T_MAX", "TC"]
