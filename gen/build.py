@@ -420,11 +420,13 @@ def build_table(ts, progress=None):
 
 
 def build_helper_table(quantity, inp, out_unit, out_scale, out_offset, tol_kind, tol, fmt,
-                       goal="smallest", name="helper", verify_points=20_000, layouts=None):
+                       goal="smallest", name="helper", verify_points=20_000, layouts=None,
+                       degree=None):
     """A one-input table that a larger function keeps beside it (a saturation value of
     pressure, say): built by :func:`build_table` with an explicit piecewise layout for each
     of ``layouts`` (``binade`` where the input is positive, and ``free``, by default) so that
-    the one-input C macro renders it, and the better one for ``goal`` returned. Raises
+    the one-input C macro renders it, and the better one for ``goal`` returned (``degree``
+    fixes the degree, else every degree is tried). Raises
     :class:`BuildError` (the last layout's) when none can be built."""
     from .spec import TableSpec
     if layouts is None:
@@ -436,7 +438,7 @@ def build_helper_table(quantity, inp, out_unit, out_scale, out_offset, tol_kind,
                        inputs=(inp,), output_unit=out_unit, out_scale=out_scale,
                        out_offset=out_offset, tol_kind=tol_kind, tol_value=float(tol),
                        arithmetic=fmt, policy="clamp", goal=goal, layout=layout,
-                       verify_points=verify_points)
+                       degree=degree, verify_points=verify_points)
         try:
             t = build_table(ts)
         except BuildError as e:

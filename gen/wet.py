@@ -354,10 +354,16 @@ def _member_tolerances(ts, combine, members, vals, X, budget):
             out[m.role] = ("abs", 0.5 * DOME_QUALITY * float(np.min(L)))
             continue
         s = sens[m.role]
-        if np.all(v > 0) and v.max() / v.min() > 4.0:
-            out[m.role] = ("rel", share / float(np.max(s * v[:, None])))
-        else:
-            out[m.role] = ("abs", share / float(np.max(s)))
+        # the error each pressure allows this member, and the constant absolute (or
+        # relative) tolerance under it; the kind that wastes less of it is taken
+        allowed = share / np.max(s, axis=1)
+        tol_abs = float(np.min(allowed))
+        kind = "abs"
+        if np.all(v > 0):
+            tol_rel = float(np.min(allowed / v))
+            if np.mean(np.log(allowed / (tol_rel * v))) < np.mean(np.log(allowed / tol_abs)):
+                kind = "rel"
+        out[m.role] = (kind, tol_abs if kind == "abs" else tol_rel)
     return out
 
 
@@ -372,8 +378,10 @@ def _floor(ts, combine, vals, X, fmt):
     return float(np.max((0.5 * ulp_a * da + 0.5 * ulp_y) / sc))
 
 
-def build_wet_table(ts, progress=None):
-    """Fit and verify a wet-steam table spec; raises :class:`gen.build.BuildError`."""
+def build_wet_table(ts, progress=None, layouts=None, degree=None):
+    """Fit and verify a wet-steam table spec; raises :class:`gen.build.BuildError`.
+    ``layouts`` and ``degree`` restrict the member tables (a benchmark's baseline uses
+    uniform degree-1 ones); by default the builder chooses."""
     t0 = time.perf_counter()
     pin, ain = ts.inputs
     fmt = ts.arithmetic
@@ -426,7 +434,8 @@ def build_wet_table(ts, progress=None):
                 built[m.role] = build_helper_table(
                     m.quantity, inp, m.unit, m.scale, m.offset, kind,
                     max(value, 3.05 * mem_floor[m.role]), fmt, ts.goal,
-                    name=f"{ts.name}_{m.role}", verify_points=MEMBER_POINTS)
+                    name=f"{ts.name}_{m.role}", verify_points=MEMBER_POINTS,
+                    layouts=layouts, degree=degree)
             except BuildError as e:
                 raise BuildError(f"table {ts.name!r}: the {_WORD[m.role]} table "
                                  f"({m.quantity}) cannot be built: {e}") from None
