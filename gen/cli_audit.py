@@ -63,11 +63,15 @@ def _generated(table, options_given):
         raise AuditInputError(str(e)) from None
     bad = 0
     for r in results:
+        if "skipped" in r:
+            click.echo(f"{r['function']}: skipped, {r['skipped']}")
+            continue
+        at = ", ".join(f"{a!r}" for a in r["measured_at"])
         same = "same as reported" if r["same"] else (
             f"DIFFERS from the reported {r['reported']!r} at {r['reported_at']}")
         within = "within" if r["within"] else "OUT OF"
         click.echo(f"{r['function']}: max error {r['measured']!r} ({r['kind']}) at "
-                   f"{r['measured_at'][0]!r} on {r['points']} points, {same}; {within} "
+                   f"{at} on {r['points']} points, {same}; {within} "
                    f"tolerance {r['tolerance']:g}")
         bad += (not r["same"]) or (not r["within"])
     if bad:

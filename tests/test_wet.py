@@ -417,3 +417,25 @@ def test_random_wet_specs_meet_tolerance_at_fresh_points(text):
     av = (float(evaluate(f"saturated_vapor_{side}", pressure=psi)) - ain.offset) / ain.scale
     st_ = t.status(pm, np.float32([al - 0.1 * (av - al), av + 0.1 * (av - al)]))
     assert list(st_) == [arith_wet.SUBCOOLED, arith_wet.SUPERHEATED]
+
+
+def test_self_audit_re_verifies_wet_tables_to_the_bit(built, tmp_path):
+    """`h2olut audit report.json` evaluates the shipped Python module's own run time on its
+    stored tables, regenerates the verification points from the report, and must meet the
+    build's maximum error exactly."""
+    spec, tables, files = built
+    d = write_files(tmp_path, files)
+    r = CliRunner().invoke(main, ["audit", str(d / "report.json")])
+    assert r.exit_code == 0, r.output
+    assert r.output.count("same as reported") == len(tables), r.output
+    # a corrupted stored value in the module is noticed
+    py = (d / "wet.py").read_text()
+    j = py.index("'coef'", py.index("_ws_x_h = {"))
+    for _ in range(6):           # the whole first segment (degree 5 at most), 1 % off
+        j = py.index('"0x', j) + 1
+        k = py.index('"', j)
+        py = py[:j] + float.hex(float.fromhex(py[j:k]) * 1.01) + py[k:]
+        j = py.index('"', j) + 1
+    (d / "wet.py").write_text(py)
+    r = CliRunner().invoke(main, ["audit", str(d / "report.json")])
+    assert r.exit_code == 1 and "DIFFERS" in r.output, r.output
