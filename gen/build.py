@@ -63,6 +63,7 @@ class Table2D:
     """One two-input table: the spec and the chosen, verified grid (gen.fit.grid2d.GridTable)."""
     spec: object
     gt: object
+    budget: dict = None          # sensor error budget (gen.sensor.budget_2d) when given
 
     @property
     def name(self):
@@ -90,7 +91,11 @@ def build_grid_table(ts, progress=None):
                         progress=(lambda m: progress(f"{ts.name}: {m}")) if progress else None)
     except DomainError as e:
         raise BuildError(f"table {ts.name!r}: {e}") from None
-    return Table2D(spec=ts, gt=gt)
+    table = Table2D(spec=ts, gt=gt)
+    if ts.sensor is not None:
+        from .sensor import budget_2d
+        table.budget = budget_2d(table)
+    return table
 
 
 def core_function(ts):
@@ -254,8 +259,12 @@ def build_table(ts, progress=None):
     if ts.domain is not None:
         return build_grid_table(ts, progress)
     if ts.phase == "wet":
+        from .sensor import budget_2d
         from .wet import build_wet_table
-        return build_wet_table(ts, progress)
+        table = build_wet_table(ts, progress)
+        if ts.sensor is not None:
+            table.budget = budget_2d(table)
+        return table
     inp = ts.inputs[0]
     fmt = ts.arithmetic
     ft = arith.FORMATS[fmt]

@@ -127,6 +127,8 @@ def table_record_2d(table):
         "candidates": _clean(gt.candidates),
         "notes": list(gt.notes),
     }
+    if table.budget is not None:
+        rec["sensor_budget"] = table.budget
     return rec
 
 
@@ -180,6 +182,8 @@ def table_record_wet(table):
     for m in rec["method"]["tables"]:
         for k in ("description", "candidates", "notes"):
             m.pop(k, None)
+    if table.budget is not None:
+        rec["sensor_budget"] = table.budget
     return rec
 
 
@@ -332,6 +336,7 @@ def _markdown_2d(t, plot):
     ]
     for n in t.gt.notes:
         lines.append(f"- note: {_md(n)}")
+    lines += _budget_lines_2d(t, g["output_unit"])
     lines += ["", "Candidates tried:", "",
               "| interpolation | axes | coordinate | met | nodes | storage bytes | est. operations | max error |",
               "|---|---|---|---|---|---|---|---|"]
@@ -347,6 +352,27 @@ def _markdown_2d(t, plot):
         lines += ["", f"![error of {t.spec.function}]({plot})"]
     lines.append("")
     return lines
+
+
+def _budget_lines_2d(t, unit):
+    """The sensor budget of a two-input table as report lines (none without sensors)."""
+    b = t.budget
+    if b is None:
+        return []
+    k, u = (100.0, "%") if b["kind"] == "rel" else (1.0, "" if unit == "1" else unit)
+    each = ", ".join(f"{_md(n.replace('_', ' '))} up to {v * k:.3g} {_md(u)}"
+                     for n, v in b["from_each_input_max"].items())
+    verdict = ("FLAGGED: the table's error is not small against the sensors'" if b["flag"]
+               else "the table's error is small against the sensors'")
+    at = b["ratio_max_at"]
+    return [
+        f"- sensors: {_md(b['sensor'])}; together they cause an output uncertainty of "
+        f"{b['output_uncertainty_min'] * k:.3g} to {b['output_uncertainty_max'] * k:.3g} "
+        f"{_md(u)} over {b['points']} points of the domain ({each}; "
+        f"{_md(b['combination'])})",
+        f"- table error / sensor-caused uncertainty: at most {b['ratio_max']:.3g} (at "
+        f"{at[0]:.6g}, {at[1]:.6g}); {verdict} (rule: {_md(b['rule'])})",
+    ]
 
 
 def _markdown_wet(t, plot):
@@ -372,6 +398,7 @@ def _markdown_wet(t, plot):
     ]
     for n in t.notes:
         lines.append(f"- note: {_md(n)}")
+    lines += _budget_lines_2d(t, g["output_unit"])
     lines += ["", "Saturation tables inside it:", "",
               "| role | quantity | tolerance | verified | segments | degree | layout | bytes |",
               "|---|---|---|---|---|---|---|---|"]

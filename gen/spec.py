@@ -95,7 +95,8 @@ class TableSpec:
     degree: int = None
     layout: str = None
     verify_points: int = DEFAULT_VERIFY_POINTS
-    sensor: object = None     # gen.sensor.Sensor feeding the input, or None
+    sensor: object = None     # gen.sensor.Sensor feeding the input (two inputs: a dict of
+                              # them by input name), or None
     domain: object = None     # gen.fit.grid2d.Domain2D for a two-input table, else None
     phase: str = None
 
@@ -344,7 +345,7 @@ def _common(source, label, t, qid):
 def _table2d(source, label, t, qid, order, function, tname, default_vp):
     """A two-input table: pressure and a second input on one side of saturation."""
     from .fit.grid2d import DomainError, make_domain
-    for k in ("degree", "layout", "sensor"):
+    for k in ("degree", "layout"):
         if k in t:
             _err(source, label, k, "is for one-input tables; a two-input table chooses its grid itself")
     phase = t.get("phase")
@@ -415,7 +416,19 @@ def _table2d(source, label, t, qid, order, function, tname, default_vp):
                      inputs=(pin, vin), output_unit=out_unit, out_scale=oscale,
                      out_offset=ooffset, tol_kind=kind, tol_value=value,
                      arithmetic=arithmetic, policy=policy, goal=goal, verify_points=vp,
-                     domain=dom, phase=phase)
+                     domain=dom, phase=phase,
+                     sensor=_sensors(source, label, t, ("pressure", second)))
+
+
+def _sensors(source, label, t, inputs):
+    """The optional per-input sensors of a two-input table, or None."""
+    if "sensor" not in t:
+        return None
+    from .sensor import SensorError, parse_sensors
+    try:
+        return parse_sensors(t["sensor"], f"{_where(source, label)} ", list(inputs))
+    except SensorError as e:
+        raise SpecError(str(e)) from None
 
 
 def _table_wet(source, label, t, qid, input_names, function, tname, default_vp):
@@ -428,7 +441,7 @@ def _table_wet(source, label, t, qid, input_names, function, tname, default_vp):
     if qid not in OUTPUTS:
         _err(source, label, "quantity", f"a wet-steam table gives one of "
              f"{', '.join(sorted(OUTPUTS))}, not {qid!r}")
-    for k in ("degree", "layout", "sensor"):
+    for k in ("degree", "layout"):
         if k in t:
             _err(source, label, k, "is for one-input tables; a wet-steam table chooses its "
                  "saturation tables itself")
@@ -482,4 +495,4 @@ def _table_wet(source, label, t, qid, input_names, function, tname, default_vp):
                      inputs=(pin, vin), output_unit=out_unit, out_scale=oscale,
                      out_offset=ooffset, tol_kind=kind, tol_value=value,
                      arithmetic=arithmetic, policy=policy, goal=goal, verify_points=vp,
-                     phase="wet")
+                     phase="wet", sensor=_sensors(source, label, t, ("pressure", second)))

@@ -130,6 +130,7 @@ class WetTable:
     candidates: list = field(default_factory=list)
     notes: list = field(default_factory=list)
     floor: float = 0.0
+    budget: dict = None          # sensor error budget (gen.sensor.budget_2d) when given
 
     @property
     def name(self):
