@@ -26,32 +26,13 @@ def table_record(table):
     pw = table.piecewise
     v = table.verification
     inp = ts.inputs[0]
-    rec = {
-        "name": ts.name,
-        "function": ts.function,
-        "quantity": ts.quantity,
-        "description": ts.description,
-        "inputs": [{"quantity": inp.quantity, "unit": inp.unit, "min": inp.lo, "max": inp.hi,
-                    **({"atmosphere_pa": inp.atmosphere} if inp.atmosphere else {})}],
-        "output": {"quantity": ts.quantity, "unit": ts.output_unit},
-        "arithmetic": pw.fmt,
-        "tolerance": _tol(ts),
-        "storage_bytes": pw.storage_bytes,
-        "max_error": {ts.tol_kind: v["max_error"]},
-        "max_error_at": [v["at"]],
-        "verification_points": v["points"],
-        "verification": {
-            "method": "sampled",
-            "reference": "h2olut IF97 core (float64)",
-            "counts": v["counts"],
-            "seed": v["seed"],
-            "rms_error": v["rms_error"],
-            "max_error_with_fma": v.get("max_error_fused"),
-            "max_breakpoint_step": v["max_breakpoint_step"],
-            "monotone": table.monotone,
-            "monotone_reversals": v.get("monotone_reversals"),
-            "format_floor": table.floor,
-        },
+    rec = _head(ts, [{"quantity": inp.quantity, "unit": inp.unit, "min": inp.lo, "max": inp.hi,
+                      **({"atmosphere_pa": inp.atmosphere} if inp.atmosphere else {})}],
+                pw.fmt, pw.storage_bytes, v, [v["at"]])
+    rec.update({
+        "verification": _verification(
+            v, table.floor, max_breakpoint_step=v["max_breakpoint_step"],
+            monotone=table.monotone, monotone_reversals=v.get("monotone_reversals")),
         "method": {
             "kind": "closed_form" if pw.layout == "closed_form" else "piecewise_polynomial",
             "layout": pw.layout,
@@ -64,10 +45,38 @@ def table_record(table):
         },
         "candidates": table.candidates,
         "notes": table.notes,
-    }
+    })
     if table.budget is not None:
         rec["sensor_budget"] = table.budget
     return rec
+
+
+def _head(ts, inputs, fmt, storage, v, at):
+    """The keys every table record starts with (see the machine contract)."""
+    return {
+        "name": ts.name,
+        "function": ts.function,
+        "quantity": ts.quantity,
+        "description": ts.description,
+        "inputs": inputs,
+        "output": {"quantity": ts.quantity, "unit": ts.output_unit},
+        "arithmetic": fmt,
+        "tolerance": _tol(ts),
+        "storage_bytes": storage,
+        "max_error": {ts.tol_kind: v["max_error"]},
+        "max_error_at": at,
+        "verification_points": v["points"],
+    }
+
+
+def _verification(v, floor, **extra):
+    """The ``verification`` block: how the maximum error was measured."""
+    out = {"method": "sampled", "reference": "h2olut IF97 core (float64)",
+           "counts": v["counts"], "seed": v["seed"], "rms_error": v["rms_error"],
+           "max_error_with_fma": v.get("max_error_fused")}
+    out.update(extra)
+    out["format_floor"] = floor
+    return out
 
 
 def _is_two(t):
@@ -85,31 +94,12 @@ def table_record_2d(table):
     second = {"quantity": ts.inputs[1].quantity, "unit": dom.v_unit, "min": vmin, "max": vmax}
     for k, val, rel in (("near", dom.near, dom.near_rel), ("far", dom.far, dom.far_rel)):
         second[f"{k}_limit"] = {"value": float(val), "from_saturation": bool(rel)}
-    rec = {
-        "name": ts.name,
-        "function": ts.function,
-        "quantity": ts.quantity,
-        "description": ts.description,
-        "inputs": [{"quantity": "pressure", "unit": dom.p_unit, "min": dom.p_lo,
-                    "max": dom.p_hi}, second],
-        "output": {"quantity": ts.quantity, "unit": dom.out_unit},
-        "arithmetic": g.fmt,
-        "tolerance": _tol(ts),
-        "storage_bytes": g.storage_bytes,
-        "max_error": {ts.tol_kind: v["max_error"]},
-        "max_error_at": [float(v["at"][0]), float(v["at"][1])],
-        "verification_points": v["points"],
-        "verification": {
-            "method": "sampled",
-            "reference": "h2olut IF97 core (float64)",
-            "counts": v["counts"],
-            "seed": v["seed"],
-            "rms_error": v["rms_error"],
-            "max_error_with_fma": v.get("max_error_fused"),
-            "max_by_kind": v.get("max_by_kind"),
-            "order_reversals": v.get("reversals"),
-            "format_floor": gt.floor,
-        },
+    rec = _head(ts, [{"quantity": "pressure", "unit": dom.p_unit, "min": dom.p_lo,
+                      "max": dom.p_hi}, second], g.fmt, g.storage_bytes, v,
+                [float(v["at"][0]), float(v["at"][1])])
+    rec.update({
+        "verification": _verification(v, gt.floor, max_by_kind=v.get("max_by_kind"),
+                                      order_reversals=v.get("reversals")),
         "method": {
             "kind": "grid",
             "layout": f"{g.x.layout}/{g.y.layout}",
@@ -126,7 +116,7 @@ def table_record_2d(table):
         },
         "candidates": _clean(gt.candidates),
         "notes": list(gt.notes),
-    }
+    })
     if table.budget is not None:
         rec["sensor_budget"] = table.budget
     return rec
@@ -137,36 +127,18 @@ def table_record_wet(table):
     saturation tables, the run time's quality error and how the dome status behaved."""
     ts, wt, v = table.spec, table, table.verification
     pin, ain = ts.inputs
-    rec = {
-        "name": ts.name,
-        "function": ts.function,
-        "quantity": ts.quantity,
-        "description": ts.description,
-        "inputs": [{"quantity": "pressure", "unit": pin.unit, "min": float(wt.p_lo),
-                    "max": float(wt.p_hi),
-                    **({"atmosphere_pa": pin.atmosphere} if pin.atmosphere else {})},
-                   {"quantity": ain.quantity, "unit": ain.unit, "min": float(ain.lo),
-                    "max": float(ain.hi), "range": "saturated liquid to saturated vapour"}],
-        "output": {"quantity": ts.quantity, "unit": ts.output_unit},
-        "arithmetic": wt.fmt,
-        "tolerance": _tol(ts),
-        "storage_bytes": wt.storage_bytes,
-        "max_error": {ts.tol_kind: v["max_error"]},
-        "max_error_at": [float(v["at"][0]), float(v["at"][1])],
-        "verification_points": v["points"],
-        "verification": {
-            "method": "sampled",
-            "reference": "h2olut IF97 core (float64)",
-            "counts": v["counts"],
-            "seed": v["seed"],
-            "rms_error": v["rms_error"],
-            "max_error_with_fma": v.get("max_error_fused"),
-            "format_floor": wt.floor,
-            "quality_max_error": v["quality_max_error"],
-            "dome_status": {k: v[k] for k in (
+    inputs = [{"quantity": "pressure", "unit": pin.unit, "min": float(wt.p_lo),
+               "max": float(wt.p_hi),
+               **({"atmosphere_pa": pin.atmosphere} if pin.atmosphere else {})},
+              {"quantity": ain.quantity, "unit": ain.unit, "min": float(ain.lo),
+               "max": float(ain.hi), "range": "saturated liquid to saturated vapour"}]
+    rec = _head(ts, inputs, wt.fmt, wt.storage_bytes, v, [float(v["at"][0]), float(v["at"][1])])
+    rec.update({
+        "verification": _verification(
+            v, wt.floor, quality_max_error=v["quality_max_error"],
+            dome_status={k: v[k] for k in (
                 "inside_flagged_outside", "inside_flagged_max_depth", "outside_points",
-                "outside_missed", "outside_missed_max_depth")},
-        },
+                "outside_missed", "outside_missed_max_depth")}),
         "method": {
             "kind": "wet_steam",
             "combine": wt.combine,
@@ -178,7 +150,7 @@ def table_record_wet(table):
         },
         "candidates": _clean(wt.candidates),
         "notes": list(wt.notes),
-    }
+    })
     for m in rec["method"]["tables"]:
         for k in ("description", "candidates", "notes"):
             m.pop(k, None)

@@ -158,18 +158,23 @@ def compare(sensor, input_unit, x, error, dfdx, fx, kind):
         uy = uy / np.abs(fx)
     ratio = e / uy
     i = int(np.argmax(ratio))
+    return {"sensor": sensor.describe(input_unit), **_verdict(e, uy, ratio, i, kind),
+            "ratio_max_at": float(x[i])}
+
+
+def _verdict(e, uy, ratio, i, kind):
+    """The keys every budget record shares: the spread of the sensor-caused uncertainty, the
+    table's error, their largest ratio and the 4:1 flag."""
     return {
-        "sensor": sensor.describe(input_unit),
         "output_uncertainty_min": float(uy.min()),
         "output_uncertainty_max": float(uy.max()),
         "table_error_max": float(e.max()),
         "ratio_max": float(ratio[i]),
-        "ratio_max_at": float(x[i]),
         "ratio_limit": RATIO_LIMIT,
         "flag": bool(ratio[i] > RATIO_LIMIT),
         "rule": "table error below 1/4 of the sensor-caused output uncertainty everywhere "
                 "(a 4:1 ratio; common practice, no source)",
-        "points": int(np.size(x)),
+        "points": int(np.size(e)),
         "kind": kind,
     }
 
@@ -216,24 +221,12 @@ def compare_2d(sensors, units, names, P, V, error, fp, fv, fx, kind):
     i = int(np.argmax(ratio))
     text = "; ".join(f"{n.replace('_', ' ')} {sensors[n].describe(u)}"
                      for n, u in zip(names, units) if n in sensors)
-    return {
-        "sensor": text,
-        "output_uncertainty_min": float(uy.min()),
-        "output_uncertainty_max": float(uy.max()),
-        "from_each_input_max": {n: float(c.max()) for n, c in zip(names, (up, uv))
-                                if n in sensors},
-        "combination": "root sum of squares of independent sensors (JCGM 100:2008 eq. 10, "
-                       "equation number from memory)",
-        "table_error_max": float(e.max()),
-        "ratio_max": float(ratio[i]),
-        "ratio_max_at": [float(P[i]), float(V[i])],
-        "ratio_limit": RATIO_LIMIT,
-        "flag": bool(ratio[i] > RATIO_LIMIT),
-        "rule": "table error below 1/4 of the sensor-caused output uncertainty everywhere "
-                "(a 4:1 ratio; common practice, no source)",
-        "points": int(np.size(P)),
-        "kind": kind,
-    }
+    return {"sensor": text, **_verdict(e, uy, ratio, i, kind),
+            "ratio_max_at": [float(P[i]), float(V[i])],
+            "from_each_input_max": {n: float(c.max()) for n, c in zip(names, (up, uv))
+                                    if n in sensors},
+            "combination": "root sum of squares of independent sensors (JCGM 100:2008 eq. 10, "
+                           "equation number from memory)"}
 
 
 #: points of the domain where a two-input budget is evaluated

@@ -266,6 +266,19 @@ def _table(source, index, t, prefix, default_vp):
                      goal=goal, degree=degree, layout=layout, verify_points=vp, sensor=sensor)
 
 
+def _unit(source, label, name, t):
+    """(unit, scale, offset) of input ``name`` from its table ``t`` (default: the SI unit)."""
+    kind = Q.INPUT_KIND[name]
+    unit = t.get("unit", U.DIMENSIONS[kind])
+    if not isinstance(unit, str):
+        _err(source, label, f"{name}.unit", "must be a unit name string")
+    try:
+        scale, offset = U.to_si_map(unit, kind)
+    except U.UnitError as e:
+        _err(source, label, f"{name}.unit", str(e))
+    return unit, scale, offset
+
+
 def _input(source, label, qid, name, t, check_range=True):
     key = name
     if not isinstance(t, dict):
@@ -273,14 +286,7 @@ def _input(source, label, qid, name, t, check_range=True):
     for k in t:
         if k not in _INPUT_KEYS:
             _err(source, label, f"{key}.{k}", f"unknown key; allowed: {', '.join(sorted(_INPUT_KEYS))}")
-    kind = Q.INPUT_KIND[name]
-    unit = t.get("unit", U.DIMENSIONS[kind])
-    if not isinstance(unit, str):
-        _err(source, label, f"{key}.unit", "must be a unit name string")
-    try:
-        scale, offset = U.to_si_map(unit, kind)
-    except U.UnitError as e:
-        _err(source, label, f"{key}.unit", str(e))
+    unit, scale, offset = _unit(source, label, name, t)
     for k in ("min", "max"):
         if k not in t:
             _err(source, label, f"{key}.{k}", "is required")
@@ -363,12 +369,7 @@ def _table2d(source, label, t, qid, order, function, tname, default_vp):
         if k not in _INPUT_KEYS - {"atmosphere"} and k not in _RELATIVE_KEYS:
             _err(source, label, f"{second}.{k}", f"unknown key; allowed: "
                  f"{', '.join(sorted((_INPUT_KEYS - {'atmosphere'}) | _RELATIVE_KEYS))}")
-    kind2 = Q.INPUT_KIND[second]
-    vunit = d.get("unit", U.DIMENSIONS[kind2])
-    try:
-        vscale, voffset = U.to_si_map(vunit, kind2)
-    except U.UnitError as e:
-        _err(source, label, f"{second}.unit", str(e))
+    vunit, vscale, voffset = _unit(source, label, second, d)
     # the limit nearest saturation ("near") and the other one ("far"): a key for a distance
     # from saturation, or an absolute one, for each
     ends = {"vapor": (("min_above_saturation", "min"), ("max_above_saturation", "max")),
@@ -477,14 +478,7 @@ def _table_wet(source, label, t, qid, input_names, function, tname, default_vp):
             _err(source, label, f"{second}.{k}", "a wet-steam table takes only 'unit' here: "
                  "its range is the dome itself (saturated liquid to saturated vapour at each "
                  "pressure)")
-    kind2 = Q.INPUT_KIND[second]
-    vunit = d.get("unit", U.DIMENSIONS[kind2])
-    if not isinstance(vunit, str):
-        _err(source, label, f"{second}.unit", "must be a unit name string")
-    try:
-        vscale, voffset = U.to_si_map(vunit, kind2)
-    except U.UnitError as e:
-        _err(source, label, f"{second}.unit", str(e))
+    vunit, vscale, voffset = _unit(source, label, second, d)
     p = np.linspace(pin.lo, pin.hi, 257) * pin.scale + pin.offset
     side = "enthalpy" if second == "specific_enthalpy" else "entropy"
     a_lo = float(np.min(Q.evaluate(f"saturated_liquid_{side}", pressure=p)))
