@@ -124,6 +124,41 @@ def test_candidates_are_reported_and_the_choice_is_the_smallest(steam):
     assert steam.helper.piecewise is g.helper
 
 
+def test_verification_has_the_points_asked_for_and_none_of_the_fits(steam):
+    v = steam.verification
+    assert v["requested"] == VERIFY
+    assert v["points"] >= VERIFY
+    assert set(v["counts"]) == {"edges", "grid_lines", "cell_interior", "random"}
+    assert all(n > 0 for n in v["counts"].values())
+    # the random share fills up to the count asked for (clamp: every input counts)
+    assert sum(v["counts"].values()) == v["points"]
+    # every candidate is verified on as many
+    assert all(r["points"] >= VERIFY for r in steam.candidates if r["met"])
+    # no input is a check point of the fit, a node or a cell centre of the grid
+    g = steam.grid
+    prob = G.Problem(steam.domain, "rel", 1e-3, helper=steam.helper)
+    P, V, counts = G.verification_inputs(g, prob, VERIFY, v["seed"])
+    assert counts == v["counts"]
+    seen = set(zip(P.tolist(), V.tolist()))
+    cp, cv, _ = prob.check_inputs()
+    fp, fv = G.fit_points(g, prob)
+    assert fp.size == g.nx * g.ny + (g.nx - 1) * (g.ny - 1)
+    assert not seen & set(zip(cp.tolist(), cv.tolist()))
+    assert not seen & set(zip(fp.tolist(), fv.tolist()))
+    # the corners themselves are check points; their format neighbours are verified
+    corners = set(zip(np.repeat([prob.p_lo, prob.p_hi], 2).tolist(),
+                      np.concatenate([np.sort(steam.domain.limits(np.array([p])), axis=None)
+                                      for p in (prob.p_lo, prob.p_hi)]).tolist()))
+    assert corners <= set(zip(cp.tolist(), cv.tolist())) and not corners & seen
+    pc, vc = G.corner_inputs(prob)
+    assert set(zip(pc.tolist(), vc.tolist())) <= seen
+    # with NaN outside the run time's own limits, the points that count still reach n
+    gn = replace(g, policy="nan")
+    vn = G.verify_grid(gn, prob, 20_000)
+    assert vn["points"] >= 20_000 and vn["outside_by_run_time"] > 0
+    assert sum(vn["counts"].values()) == vn["points"] + vn["outside_by_run_time"]
+
+
 def test_mapped_axes_give_the_same_bits_as_binary_search(steam):
     free = next(i for i, r in enumerate(steam.candidates)
                 if r["x_layout"] == "free" and r["method"] == "bilinear")

@@ -29,6 +29,7 @@ Offers
     ``saturation_helper(dom, fmt, tol, goal)``   the S(p) table (a :class:`gen.build.Table`)
     ``GridAxis``, ``Grid2D``                     the stored grid (checked constructors)
     ``fit_grid(problem, method, layouts, coord)`` one candidate, with error control
+    ``verification_inputs(grid, problem, n, seed)`` at least n points, none of the fit's
     ``verify_grid(grid, problem, n, seed)``       dense verification in the target arithmetic
     ``build_grid(dom, tol_kind, tol, ...)``       candidates, choice for a goal, verification
     ``GridTable``                                 what ``build_grid`` returns
@@ -89,8 +90,16 @@ ACCEPT = 0.95
 #: most lines per axis, and most nodes, of any candidate
 MAX_LINES = 2048
 MAX_NODES = 400_000
-#: random check points per problem (fit control; never verification points)
+#: random check points per problem (fit control; never verification points), and check points
+#: along each edge of the domain
 CHECK_POINTS = 48_000
+CHECK_EDGE_POINTS = 129
+#: verification points along each edge: at k / 255 of it, which meets the check points at
+#: j / 128 only at the corners (left out there; their format neighbours are verified instead)
+EDGE_POINTS = 256
+#: the seeded random share of a verification fills it up to the points asked for, and is never
+#: less than this share of them however many directed points (lines, cells) a grid has
+RANDOM_SHARE_MIN = 0.25
 #: a step of the core across a region boundary above this share of the tolerance is refused
 STEP_SHARE = 0.25
 #: relative cost of a division against an add or multiply, for ranking only (small
@@ -1074,17 +1083,22 @@ class Problem:
         V = [near, far, (ne[:, None] + s[None, :] * (fe - ne)[:, None]).ravel()]
         return np.concatenate(P), np.concatenate(V)
 
+    def check_inputs(self):
+        """(p, v, core) of the fixed check points of this problem's fits: seeded random ones
+        and ``CHECK_EDGE_POINTS`` along each edge (never verification points)."""
+        base = ("check_inputs",)
+        if base not in self._cache:
+            p, v = self.random_inputs(CHECK_POINTS, _seed(self.key, "check"))
+            pe, ve = self.edge_inputs(CHECK_EDGE_POINTS)
+            p, v = np.concatenate([p, pe]), np.concatenate([v, ve])
+            self._cache[base] = (p, v, self.f(p, v))
+        return self._cache[base]
+
     def check_set(self, coord):
-        """The fixed check points of this problem's fits (never verification points)."""
+        """The check inputs as a point set in coordinates ``coord``."""
         k = ("check", coord)
         if k not in self._cache:
-            base = ("check_inputs",)
-            if base not in self._cache:
-                p, v = self.random_inputs(CHECK_POINTS, _seed(self.key, "check"))
-                pe, ve = self.edge_inputs(129)
-                p, v = np.concatenate([p, pe]), np.concatenate([v, ve])
-                self._cache[base] = (p, v, self.f(p, v))
-            p, v, t = self._cache[base]
+            p, v, t = self.check_inputs()
             self._cache[k] = self.pointset(coord, p, v, t)
         return self._cache[k]
 
@@ -1604,19 +1618,121 @@ def _neighbours(a, fmt):
                            np.nextafter(a32, ft(np.inf))]).astype(np.float64)
 
 
-def verification_inputs(g, prob, n, seed):
-    """Verification inputs (p, v) for grid ``g`` and a count of each kind. None of them is a
-    node or a check point of the fit: the four edges and corners; every grid line with its two
-    format neighbours at seeded random positions along it; a sub-grid inside every cell
-    (offsets clear of the cell centre); seeded random points (half uniform, half log-uniform
-    in p), about half of ``n``."""
+def _just_inside(a, b, fmt):
+    """The format value nearest ``a`` strictly between ``a`` and ``b`` (elementwise)."""
+    ft = arith.FORMATS[fmt]
+    a = np.asarray(a, dtype=np.float64)
+    b = np.asarray(b, dtype=np.float64)
+    toward = np.where(b > a, ft(np.inf), ft(-np.inf)).astype(ft)
+    c = a.astype(ft)
+    for _ in range(2):
+        out = (c.astype(np.float64) - a) * (b - a) <= 0
+        c = np.where(out, np.nextafter(c, toward), c)
+    return c.astype(np.float64)
+
+
+def _pairs(p, v):
+    """Inputs (p, v) as one complex array, for exact set tests of points."""
+    return np.asarray(p, dtype=np.float64).ravel() + 1j * np.asarray(v, dtype=np.float64).ravel()
+
+
+def _hash(p, v):
+    """A 64-bit key of each input (p, v), equal for equal inputs (-0.0 taken as 0.0)."""
+    a = np.ascontiguousarray(np.asarray(p, dtype=np.float64).ravel() + 0.0).view(np.uint64)
+    b = np.ascontiguousarray(np.asarray(v, dtype=np.float64).ravel() + 0.0).view(np.uint64)
+    return (a * np.uint64(0x9E3779B97F4A7C15)) ^ b
+
+
+def _member(p, v, p2, v2):
+    """Whether each input (p, v) is exactly one of the inputs (p2, v2): keys first, then the
+    values themselves where keys agree."""
+    p, v = np.asarray(p, dtype=np.float64).ravel(), np.asarray(v, dtype=np.float64).ravel()
+    p2, v2 = np.asarray(p2, dtype=np.float64).ravel(), np.asarray(v2, dtype=np.float64).ravel()
+    k1, k2 = _hash(p, v), _hash(p2, v2)
+    hit = np.isin(k1, k2)
+    if hit.any():
+        i = np.nonzero(hit)[0]
+        j = np.isin(k2, k1[i])
+        hit[i] = np.isin(_pairs(p[i], v[i]), _pairs(p2[j], v2[j]))
+    return hit
+
+
+def corner_inputs(prob):
+    """Format neighbours of the domain's four corners, three at each: the second input one
+    format step inside its limit at the corner's pressure, and at the pressure one step inside,
+    the second input at its limit and one step inside it (the exact corners are check points
+    of the fit)."""
+    fmt = prob.fmt
+    P, V = [], []
+    for p0, p1 in ((prob.p_lo, prob.p_hi), (prob.p_hi, prob.p_lo)):
+        pin = float(_just_inside(p0, p1, fmt))
+        l0 = [float(a[0]) for a in prob.dom.limits(np.array([p0]))]
+        li = [float(a[0]) for a in prob.dom.limits(np.array([pin]))]
+        for a, b in ((0, 1), (1, 0)):
+            P += [p0, pin, pin]
+            V += [float(_just_inside(l0[a], l0[b], fmt)), li[a],
+                  float(_just_inside(li[a], li[b], fmt))]
+    return np.array(P), np.array(V)
+
+
+def _fixed_inputs(prob, n, seed):
+    """The verification inputs that do not depend on the grid, the same for every candidate
+    of a problem and cached there: the edges with the corners' neighbours, and a pool of
+    ``n + n // 8`` seeded random points in an order that alternates the uniform and the
+    log-uniform halves (so that any leading share has both), none of them a check input; each
+    with the core's values."""
+    key = ("verify_fixed", n, seed)
+    if key not in prob._cache:
+        pe, ve = prob.edge_inputs(EDGE_POINTS)
+        pc, vc = corner_inputs(prob)
+        pe, ve = np.concatenate([pe, pc]), np.concatenate([ve, vc])
+        m = n + n // 8
+        pr, vr = prob.random_inputs(m, seed ^ 0x5EED)
+        half = m // 2
+        order = np.argsort(np.concatenate([2 * np.arange(half), 2 * np.arange(m - half) + 1]),
+                           kind="stable")
+        pr, vr = pr[order], vr[order]
+        cp, cv, _ = prob.check_inputs()
+        ke = ~_member(pe, ve, cp, cv)
+        kr = ~_member(pr, vr, cp, cv)
+        pe, ve, pr, vr = pe[ke], ve[ke], pr[kr], vr[kr]
+        prob._cache[key] = (pe, ve, prob.f(pe, ve), pr, vr, prob.f(pr, vr),
+                            int(np.sum(~ke)))
+    return prob._cache[key]
+
+
+def fit_points(g, prob):
+    """Inputs (p, v) of the nodes and the cell centres of grid ``g``: where its node values
+    came from and where its last fit round checked it (with the problem's check set, the
+    points a verification must avoid)."""
+    xs, ys = np.asarray(g.x.lines), np.asarray(g.y.lines)
+    xc, yc = 0.5 * (xs[1:] + xs[:-1]), 0.5 * (ys[1:] + ys[:-1])
+    P = np.concatenate([np.repeat(xs, ys.size), np.repeat(xc, yc.size)])
+    Y = np.concatenate([np.tile(ys, xs.size), np.tile(yc, xc.size)])
+    return P, prob.v_of(g.coord, P, Y)
+
+
+def _verification_set(g, prob, n, seed):
+    """(P, V, counts, truth, dropped) of :func:`verification_inputs`, with the core's values;
+    ``dropped``: inputs left out because they are nodes, cell centres or check points. The
+    last set is kept on the problem, for the bit comparison of a mapped variant."""
+    last = prob._cache.get("last_verification_set")
+    if last is not None and last[0] is g and last[1:3] == (n, seed):
+        return last[3]
+    out = _new_verification_set(g, prob, n, seed)
+    prob._cache["last_verification_set"] = (g, n, seed, out)
+    return out
+
+
+def _new_verification_set(g, prob, n, seed):
     coord, fmt = g.coord, g.fmt
     rng = np.random.default_rng(seed)
     d = prob.dom
-    parts, counts = [], {}
-    pe, ve = prob.edge_inputs(257)
-    parts.append((pe, ve))
-    counts["edges"] = int(pe.size)
+    pe, ve, te, pool_p, pool_v, pool_t, dropped = _fixed_inputs(prob, n, seed)
+    fp, fv = fit_points(g, prob)
+    ke = ~_member(pe, ve, fp, fv)
+    dropped += int(np.sum(~ke))
+    pe, ve, te = pe[ke], ve[ke], te[ke]
     m = 8
     xl = _neighbours(g.x.lines, fmt)
     xl = xl[(xl >= prob.p_lo) & (xl <= prob.p_hi)]
@@ -1631,8 +1747,6 @@ def verification_inputs(g, prob, n, seed):
     keep = prob.reachable(coord, Py, Yy)
     Py, Yy = Py[keep], Yy[keep]
     Vy = prob.v_of(coord, Py, Yy)
-    parts.append((np.concatenate([Px, Py]), np.concatenate([Vx, Vy])))
-    counts["grid_lines"] = int(Px.size + Py.size)
     cells = (g.nx - 1) * (g.ny - 1)
     ms = int(min(4, max(1, math.floor(math.sqrt(0.4 * n / cells)))))
     off = (np.arange(ms) + 0.5) / ms + 0.061 / ms
@@ -1643,27 +1757,50 @@ def verification_inputs(g, prob, n, seed):
     Yc = np.tile(cy, cx.size)
     keep = prob.reachable(coord, Pc, Yc) & (Pc >= prob.p_lo) & (Pc <= prob.p_hi)
     Pc, Yc = Pc[keep], Yc[keep]
-    parts.append((Pc, prob.v_of(coord, Pc, Yc)))
-    counts["cell_interior"] = int(Pc.size)
-    nr = n - n // 2
-    pr, vr = prob.random_inputs(nr, seed ^ 0x5EED)
-    parts.append((pr, vr))
-    counts["random"] = int(pr.size)
-    P = np.concatenate([a for a, _ in parts])
-    V = np.concatenate([b for _, b in parts])
+    Vc = prob.v_of(coord, Pc, Yc)
+    cp, cv, _ = prob.check_inputs()
+    ap, av = np.concatenate([fp, cp]), np.concatenate([fv, cv])
+    parts = [(pe, ve, te)]
+    for P, V in ((np.concatenate([Px, Py]), np.concatenate([Vx, Vy])), (Pc, Vc)):
+        k = ~_member(P, V, ap, av)
+        dropped += int(np.sum(~k))
+        parts.append((P[k], V[k], prob.f(P[k], V[k])))
+
+    def counted(P, V, T):
+        """The points that count towards n: a value of the core, and for policy nan inside
+        the run time's own limits (the others are NaN by design, see verify_grid)."""
+        ok = np.isfinite(T)
+        if g.policy == "nan" and P.size:
+            ok &= g.status(P, V) == arith.IN_RANGE
+        return ok
+
+    directed = sum(int(np.sum(counted(*q))) for q in parts)
+    want = max(n - directed, int(math.ceil(RANDOM_SHARE_MIN * n)))
+    free = np.nonzero(~_member(pool_p, pool_v, fp, fv))[0]
+    cum = np.cumsum(counted(pool_p[free], pool_v[free], pool_t[free]))
+    take = free[:int(np.searchsorted(cum, want)) + 1] if want > 0 else free[:0]
+    dropped += int(take[-1]) + 1 - int(take.size) if take.size else 0
+    parts.append((pool_p[take], pool_v[take], pool_t[take]))
+    counts = {"edges": int(parts[0][0].size), "grid_lines": int(parts[1][0].size),
+              "cell_interior": int(parts[2][0].size), "random": int(take.size)}
+    P = np.concatenate([a for a, _, _ in parts])
+    V = np.concatenate([b for _, b, _ in parts])
+    T = np.concatenate([c for _, _, c in parts])
+    return P, V, counts, T, dropped
+
+
+def verification_inputs(g, prob, n, seed):
+    """Verification inputs (p, v) for grid ``g`` and a count of each kind: at least ``n``
+    that count (a value of the core; for policy ``nan``, inside the run time's own limits too).
+    The directed kinds: the four edges with the format neighbours of the corners; every grid
+    line with its two format neighbours at seeded random positions along it; a sub-grid inside
+    every cell (offsets clear of the cell centre). Then seeded random points (alternately
+    uniform and log-uniform in p) fill up to ``n``, and are never fewer than
+    ``RANDOM_SHARE_MIN`` of ``n``. None of them is a node, a cell centre or a check point of
+    the fit: exact coincidences with those are left out (:func:`fit_points`,
+    :meth:`Problem.check_inputs`)."""
+    P, V, counts, _, _ = _verification_set(g, prob, n, seed)
     return P, V, counts
-
-
-def _truth(prob, P, V, counts, seed):
-    """The core at the verification inputs; the edge and random parts, the same for every
-    candidate of a problem, are evaluated once."""
-    ne, nr = counts["edges"], counts["random"]
-    key = ("truth", ne, nr, seed)
-    if key not in prob._cache:
-        prob._cache[key] = (prob.f(P[:ne], V[:ne]), prob.f(P[-nr:], V[-nr:]))
-    te, tr = prob._cache[key]
-    mid = prob.f(P[ne:P.size - nr], V[ne:P.size - nr])
-    return np.concatenate([te, mid, tr])
 
 
 def _monotone_sign(a, axis):
@@ -1733,11 +1870,13 @@ def order_reversals(g, prob, lines=24, m=1024):
 
 def verify_grid(g, prob, n=100_000, seed=None):
     """Total error of the emulated function (helper, coordinate, grid, every rounding) at the
-    verification inputs, against the core. A sampled maximum, not a bound."""
+    verification inputs (:func:`verification_inputs`: at least ``n`` points), against the
+    core. A sampled maximum, not a bound. ``points`` is how many were measured, ``requested``
+    the ``n`` asked for, ``left_out`` how many inputs were skipped as nodes, cell centres or
+    check points of the fit."""
     seed = _seed(prob.key, "verify") if seed is None else int(seed)
-    P, V, counts = verification_inputs(g, prob, n, seed)
+    P, V, counts, truth, dropped = _verification_set(g, prob, n, seed)
     kind = np.repeat(np.arange(len(counts)), list(counts.values()))
-    truth = _truth(prob, P, V, counts, seed)
     ok = np.isfinite(truth)
     P, V, truth, kind = P[ok], V[ok], truth[ok], kind[ok]
     sc = prob.scale(truth)
@@ -1753,7 +1892,7 @@ def verify_grid(g, prob, n=100_000, seed=None):
     i = int(np.argmax(ae))
     res = {"points": int(P.size), "max_error": float(ae[i]), "at": (float(P[i]), float(V[i])),
            "signed_error_at_max": float(e[i]), "rms_error": float(np.sqrt(np.mean(e * e))),
-           "counts": counts, "seed": seed}
+           "counts": counts, "seed": seed, "requested": int(n), "left_out": dropped}
     res["max_by_kind"] = {name: float(np.max(ae[kind == j])) if np.any(kind == j) else 0.0
                           for j, name in enumerate(counts)}
     if g.fmt == "float32":
@@ -1829,10 +1968,11 @@ def _key(row, goal):
 
 def build_grid(dom, tol_kind, tol, fmt="float32", policy="clamp", goal="smallest",
                candidates=CANDIDATES, coords=None, verify_points=100_000, progress=None):
-    """Fit every candidate (method x axis layouts x coordinate), verify each, and return the
-    best for ``goal`` ("smallest": stored bytes, helper included; "fastest": estimated
-    operations per call) as a :class:`GridTable`. Raises :class:`DomainError` for a domain or
-    tolerance that cannot be met, with a one-line message."""
+    """Fit every candidate (method x axis layouts x coordinate), verify each on at least
+    ``verify_points`` points, and return the best for ``goal`` ("smallest": stored bytes,
+    helper included; "fastest": estimated operations per call) as a :class:`GridTable`. Raises
+    :class:`DomainError` for a domain or tolerance that cannot be met, with a one-line
+    message."""
     t0 = time.perf_counter()
     if tol_kind not in ("abs", "rel") or not (tol > 0):
         raise DomainError(f"tolerance must be abs or rel and positive, not {tol_kind} {tol!r}")
@@ -1889,7 +2029,9 @@ def build_grid(dom, tol_kind, tol, fmt="float32", policy="clamp", goal="smallest
                 gm, vm = _mapped_variant(g, v, prob, verify_points)
                 mrow = dict(row, x_layout="mapped", y_layout="mapped", seconds=0.0,
                             storage_bytes=gm.storage_bytes, grid_bytes=gm.grid_bytes,
-                            estimated_ops=estimated_ops(gm),
+                            estimated_ops=estimated_ops(gm), max_error=vm["max_error"],
+                            max_error_fused=vm.get("max_error_fused"), points=vm["points"],
+                            reversals=vm["reversals"],
                             map_steps=[gm.x.steps, gm.y.steps],
                             bins=[int(np.asarray(gm.x.map).size), int(np.asarray(gm.y.map).size)])
                 rows.append(mrow)
@@ -1991,9 +2133,10 @@ def grid_summary(gt):
         "points": v["points"],
         "verified": (f"{err(v['max_error'])} at p = {_g(at[0])} {dom.p_unit}, "
                      f"{_WORDS[dom.second]} = {_g(at[1])} {dom.v_unit}, the largest of "
-                     f"{v['points']} sampled points (edges, grid lines and neighbours, cell "
-                     f"interiors, seeded random) of the whole function in {g.fmt} emulation "
-                     f"against the IF97 core; a sampled maximum, not a bound"),
+                     f"{v['points']} sampled points (edges and corner neighbours, grid lines "
+                     f"and neighbours, cell interiors, seeded random; none a node or check point "
+                     f"of the fit) of the whole function in {g.fmt} emulation against the IF97 "
+                     f"core; a sampled maximum, not a bound"),
         "fused": None if v.get("max_error_fused") is None else err(v["max_error_fused"]),
         "method": (f"{method} on {g.nx} x {g.ny} nodes; pressure: {lay[g.x.layout]}; "
                    f"second coordinate: {lay[g.y.layout]}"),
