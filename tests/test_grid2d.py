@@ -7,6 +7,7 @@ with the emulation bit for bit; bad domains must be refused with a one-line mess
 offending edge in the user's units.
 """
 
+import math
 import subprocess
 from dataclasses import replace
 
@@ -157,6 +158,47 @@ def test_verification_has_the_points_asked_for_and_none_of_the_fits(steam):
     vn = G.verify_grid(gn, prob, 20_000)
     assert vn["points"] >= 20_000 and vn["outside_by_run_time"] > 0
     assert sum(vn["counts"].values()) == vn["points"] + vn["outside_by_run_time"]
+
+
+def _rows(*spec):
+    return [{"met": met, "estimated_ops": ops, "storage_bytes": nb} for met, ops, nb in spec]
+
+
+def test_goal_fastest_takes_the_fewest_bytes_within_the_band_of_the_fewest_operations():
+    edge = math.floor(100 * (1 + G.NEAR_FASTEST))
+    rows = _rows((True, 100, 20_000),       # 0: fewest operations
+                 (False, 80, 100),          # 1: not met: neither chosen nor the reference
+                 (True, edge, 6_000),       # 2: on the band's edge
+                 (True, edge + 1, 900),     # 3: just outside the band
+                 (True, 101, 6_000),        # 4: as small as 2, fewer operations
+                 (True, 250, 400))          # 5: the fewest bytes
+    assert G.choose_candidate(rows, "fastest") == 4
+    assert G.choose_candidate(rows, "smallest") == 5
+    rows[4]["storage_bytes"] = 7_000
+    assert G.choose_candidate(rows, "fastest") == 2
+    # the band is measured from the fewest operations of the rows given and allowed
+    assert G.choose_candidate(rows[2:4], "fastest") == 1   # within the band of rows[2]
+    assert G.choose_candidate(rows, "fastest", max_ops=99) is None
+    assert G.choose_candidate(rows, "smallest", max_ops=edge) == 2
+    assert G.choose_candidate(rows, "fastest", max_ops=100) == 0
+    # from bench/grids.py (estimated operations of the four cases; gcc -O2 callgrind counts
+    # beside them in the comment on NEAR_FASTEST): the smaller uniform bilinear grids are
+    # within 0.034 of the fewest, bin-mapped ones from 0.19 on
+    assert 0.034 < G.NEAR_FASTEST < 0.19
+
+
+def test_choose_applies_the_same_rule_as_the_build(steam):
+    fast = steam.choose("fastest")
+    i = next(k for k, r in enumerate(fast.candidates) if r["chosen"])
+    assert i == G.choose_candidate(steam.candidates, "fastest")
+    assert fast.grid is steam.fits[i][0]
+    met = [r for r in steam.candidates if r["met"]]
+    fewest = min(r["estimated_ops"] for r in met)
+    band = [r for r in met if r["estimated_ops"] <= fewest * (1 + G.NEAR_FASTEST)]
+    assert fast.candidates[i]["storage_bytes"] == min(r["storage_bytes"] for r in band)
+    assert steam.choose("smallest").grid is steam.grid
+    with pytest.raises(G.DomainError, match="goal must be one of"):
+        steam.choose("tiniest")
 
 
 def test_mapped_axes_give_the_same_bits_as_binary_search(steam):

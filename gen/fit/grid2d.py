@@ -32,6 +32,7 @@ Offers
     ``verification_inputs(grid, problem, n, seed)`` at least n points, none of the fit's
     ``verify_grid(grid, problem, n, seed)``       dense verification in the target arithmetic
     ``build_grid(dom, tol_kind, tol, ...)``       candidates, choice for a goal, verification
+    ``choose_candidate(rows, goal, max_ops)``     the choice (``NEAR_FASTEST`` for "fastest")
     ``GridTable``                                 what ``build_grid`` returns
     ``grid_c_context(gt, function)``              the dict ``templates/c_grid2d.j2`` renders
     ``estimated_ops(grid)``                       rough operations per call, for ranking
@@ -102,6 +103,15 @@ EDGE_POINTS = 256
 RANDOM_SHARE_MIN = 0.25
 #: a step of the core across a region boundary above this share of the tolerance is refused
 STEP_SHARE = 0.25
+#: goal "fastest" takes the candidate storing the fewest bytes among those whose estimated
+#: operations per call are at most this share more than the fewest found. Chosen from the four
+#: float32 cases of bench/grids.py (callgrind, gcc -O2, x86-64): uniform bilinear grids in the
+#: three coordinates are estimated within 0.11 of the fewest and measure 84-115 instructions;
+#: bin-mapped bilinear ones are estimated from 0.19 over the fewest on and measure 109-141
+#: (over 120 with the free-lines helper of goal "smallest"). Below 0.034 one case keeps a grid
+#: of 20 kB, not 10x fewer bytes than a raw uniform grid; 0.15 takes the smaller uniform grids
+#: and leaves the mapped ones out.
+NEAR_FASTEST = 0.15
 #: relative cost of a division against an add or multiply, for ranking only (small
 #: single-precision FPUs take about ten times longer; common practice, no source)
 SLOW_OP = 8
@@ -1935,12 +1945,12 @@ class GridTable:
         """The same candidates chosen for another ``goal`` (and at most ``max_ops`` estimated
         operations per call, if given): a new GridTable, no refitting."""
         from dataclasses import replace
-        ok = [i for i, r in enumerate(self.candidates)
-              if r["met"] and (max_ops is None or r["estimated_ops"] <= max_ops)]
-        if not ok:
+        if goal not in GOALS:
+            raise DomainError(f"goal must be one of {', '.join(GOALS)}, not {goal!r}")
+        best = choose_candidate(self.candidates, goal, max_ops)
+        if best is None:
             raise DomainError(f"no candidate meets the tolerance within {max_ops} estimated "
                               f"operations")
-        best = min(ok, key=lambda i: _key(self.candidates[i], goal))
         rows = [dict(r, chosen=i == best) for i, r in enumerate(self.candidates)]
         g, v = self.fits[best]
         return replace(self, grid=g, verification=v, candidates=rows, goal=goal)
@@ -1960,19 +1970,30 @@ def _mapped_variant(g, v, prob, verify_points):
     return gm, verify_grid(gm, prob, verify_points)
 
 
-def _key(row, goal):
-    if goal == "smallest":
-        return (row["storage_bytes"], row["estimated_ops"])
-    return (row["estimated_ops"], row["storage_bytes"])
+def choose_candidate(rows, goal, max_ops=None):
+    """Index of the candidate row chosen for ``goal`` among those that met the tolerance (and
+    have at most ``max_ops`` estimated operations, if given), or None. "smallest": the fewest
+    stored bytes (then the fewest operations). "fastest": the fewest stored bytes among the
+    rows whose estimated operations are at most ``NEAR_FASTEST`` more than the fewest (then
+    the fewest operations). Ties go to the earlier row."""
+    ok = [i for i, r in enumerate(rows)
+          if r["met"] and (max_ops is None or r["estimated_ops"] <= max_ops)]
+    if not ok:
+        return None
+    if goal == "fastest":
+        fewest = min(rows[i]["estimated_ops"] for i in ok)
+        ok = [i for i in ok if rows[i]["estimated_ops"] <= fewest * (1.0 + NEAR_FASTEST)]
+    return min(ok, key=lambda i: (rows[i]["storage_bytes"], rows[i]["estimated_ops"]))
 
 
 def build_grid(dom, tol_kind, tol, fmt="float32", policy="clamp", goal="smallest",
                candidates=CANDIDATES, coords=None, verify_points=100_000, progress=None):
     """Fit every candidate (method x axis layouts x coordinate), verify each on at least
-    ``verify_points`` points, and return the best for ``goal`` ("smallest": stored bytes,
-    helper included; "fastest": estimated operations per call) as a :class:`GridTable`. Raises
-    :class:`DomainError` for a domain or tolerance that cannot be met, with a one-line
-    message."""
+    ``verify_points`` points, and return the one chosen for ``goal`` by
+    :func:`choose_candidate` ("smallest": the fewest stored bytes, helper included; "fastest":
+    the fewest bytes within ``NEAR_FASTEST`` of the fewest estimated operations per call) as a
+    :class:`GridTable`. Raises :class:`DomainError` for a domain or tolerance that cannot be
+    met, with a one-line message."""
     t0 = time.perf_counter()
     if tol_kind not in ("abs", "rel") or not (tol > 0):
         raise DomainError(f"tolerance must be abs or rel and positive, not {tol_kind} {tol!r}")
@@ -2041,7 +2062,7 @@ def build_grid(dom, tol_kind, tol, fmt="float32", policy="clamp", goal="smallest
         why = "; ".join(f"{r['method']} {r['x_layout']} {r['coord']}: {r.get('why')}" for r in rows)
         raise DomainError(f"no candidate met tolerance {tol:g} {unit} over "
                           f"{describe_domain(dom)} ({why})")
-    best = min(met, key=lambda i: _key(rows[i], goal))
+    best = choose_candidate(rows, goal)
     for i, r in enumerate(rows):
         r["chosen"] = i == best
     g, v = grids[best]
