@@ -472,3 +472,16 @@ def test_same_inputs_same_bits(water):
     assert np.array_equal(np.asarray(a.z), np.asarray(b.z))
     assert np.array_equal(np.asarray(a.x.lines), np.asarray(b.x.lines))
     assert np.array_equal(a.helper.coef, b.helper.coef)
+
+
+@pytest.mark.parametrize("phase", ["vapor", "liquid"])
+def test_floor_and_slope_do_not_step_across_saturation(phase):
+    """A near limit on the saturation line itself: the format floor and the helper's slope
+    are those of the phase, not of the jump to the other one (they were 5.3 and more)."""
+    on = G.make_domain("density", phase, 1.0, 15.0, 0.0, 70.0, near_rel=True, far_rel=True,
+                       p_unit="MPa", v_unit="degC")
+    off = G.make_domain("density", phase, 1.0, 15.0, 0.01, 70.0, near_rel=True, far_rel=True,
+                        p_unit="MPa", v_unit="degC")
+    a, b = G.Problem(on, "rel", 1e-3), G.Problem(off, "rel", 1e-3)
+    assert a.floor() < 1e-5 and a.floor() == pytest.approx(b.floor(), rel=0.3)
+    assert a.slope_v() == pytest.approx(b.slope_v(), rel=0.3)

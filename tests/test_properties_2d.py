@@ -26,8 +26,8 @@ Bounded for CI: ``max_examples`` set (3 specs per forward quantity, 6 backward, 
 ``deadline=None``, ``derandomize=True`` with a fixed ``seed`` per test (the same examples on
 every run), no example database, and no shrinking (a failing example is reported as drawn, and
 a failure cannot cost minutes of rebuilding). The whole file took 72 to 91 s on two cores.
-The builder refuses a vapour or liquid (p, T) table whose near limit is the saturation line
-itself; the random specs keep 0.5 K from it, and a strict xfail at the end records the bug.
+The random specs keep 0.5 K from the saturation line; a test at the end builds a table whose
+near limit is the line itself.
 """
 
 import re
@@ -631,11 +631,6 @@ def test_too_tight_tolerances_are_refused_with_the_smallest_feasible_value(c):
     assert build_or_refusal(c) is None
 
 
-@pytest.mark.xfail(strict=True, raises=AssertionError, reason=(
-    "gen/fit/grid2d.py Problem.floor() and slope_v() take central differences of step "
-    "1e-4 of the range across the saturation line when the near limit is the line itself, "
-    "so the floor is the jump between the phases (density: 5.3 relative) and the spec is "
-    "refused as too tight"))
 def test_forward_table_from_the_saturation_line_itself():
     """A vapour density table from T_sat(p) itself (min_above_saturation = 0, a valid spec)
     builds and meets its tolerance like any other."""

@@ -49,7 +49,7 @@ output_unit = "kJ/kg"
 tolerance = { abs = 0.01 }
 verify_points = 20000
 pressure = { unit = "MPa", min = 0.003, max = 0.004 }
-temperature = { unit = "K", min_above_saturation = 0.05, max = 710 }
+temperature = { unit = "K", min_above_saturation = 0, max = 710 }
 
 [[table]]
 name = "r2_t_ph"

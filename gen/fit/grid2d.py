@@ -1205,16 +1205,37 @@ class Problem:
             self._cache[key] = (gx, gy)
         return self._cache[key]
 
+    def slopes(self, P, V):
+        """(|df/dp|, |df/dv|) at domain points (P, V) by second-order differences that never
+        step across saturation: one-sided away from the line on a vapour or liquid table
+        (a point on the line itself has only one side), central on a supercritical one."""
+        dom = self.dom
+        near, far = dom.limits(P)
+        dp = 1e-6 * np.abs(P) + 1e-12
+        dv = 1e-4 * np.abs(far - near)
+        if not dom.side:
+            fp = (self.f(P + dp, V) - self.f(P - dp, V)) / (2 * dp)
+            fv = (self.f(P, V + dv) - self.f(P, V - dv)) / (2 * dv)
+            return np.abs(fp), np.abs(fv)
+        # the pressure step that moves saturation away from v
+        up = dom.side * (V - dom.sat(P + dp)) >= dom.side * (V - dom.sat(P - dp))
+        sp = np.where(up, 1.0, -1.0)
+        sv = float(dom.side)
+
+        def one_sided(g, h, d):
+            return (-3.0 * g(0.0) + 4.0 * g(d * h) - g(2.0 * d * h)) / (2.0 * d * h)
+
+        fp = one_sided(lambda k: self.f(P + k, V), dp, sp)
+        fv = one_sided(lambda k: self.f(P, V + k), dv, sv)
+        return np.abs(fp), np.abs(fv)
+
     def slope_v(self):
         """Largest |df/dv| / scale over the domain (reference sampling): the factor by which
         an error of the saturation helper reaches the output."""
         if "slope_v" not in self._cache:
             P, V = domain_grid(self.dom, 65, 65)
-            near, far = self.dom.limits(P)
-            dv = 1e-4 * np.abs(far - near)
-            f1, f0 = self.f(P, V + dv), self.f(P, V - dv)
-            g = np.abs(f1 - f0) / (2 * dv) / self.scale(0.5 * (f0 + f1))
-            self._cache["slope_v"] = float(np.nanmax(g))
+            _, fv = self.slopes(P, V)
+            self._cache["slope_v"] = float(np.nanmax(fv / self.scale(self.f(P, V))))
         return self._cache["slope_v"]
 
     def floor(self):
@@ -1224,11 +1245,8 @@ class Problem:
             ft = self.ft
             P, V = domain_grid(self.dom, 65, 65)
             F = self.f(P, V)
-            dp = 1e-6 * np.abs(P) + 1e-12
-            near, far = self.dom.limits(P)
-            dv = 1e-4 * np.abs(far - near)
-            fp = np.abs(self.f(P + dp, V) - self.f(P - dp, V)) / (2 * dp)
-            fv = np.abs(self.f(P, V + dv) - self.f(P, V - dv)) / (2 * dv)
+            fp, fv = self.slopes(P, V)
+
             def ulp(a):
                 return np.spacing(np.abs(np.asarray(a)).astype(ft)).astype(np.float64)
 
