@@ -443,7 +443,7 @@ def build_helper_table(quantity, inp, out_unit, out_scale, out_offset, tol_kind,
     best, last = None, None
     for layout in layouts:
         ts = TableSpec(name=name, function=f"h2olut_{name}", quantity=quantity,
-                       description=f"{name}: helper table of a two-input function",
+                       description=f"{name}: a helper table of a larger function",
                        inputs=(inp,), output_unit=out_unit, out_scale=out_scale,
                        out_offset=out_offset, tol_kind=tol_kind, tol_value=float(tol),
                        arithmetic=fmt, policy="clamp", goal=goal, layout=layout,

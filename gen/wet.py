@@ -157,12 +157,11 @@ class WetTable:
 
     def runtime(self):
         """The dict :mod:`gen.arith_wet` evaluates (target-format numbers)."""
-        from .fit.grid2d import sat_runtime
         ft = arith.FORMATS[self.fmt]
         tab = {"fmt": self.fmt, "policy": self.policy, "combine": self.combine,
                "p_lo": ft(self.p_lo), "p_hi": ft(self.p_hi)}
         for role, t in self.members.items():
-            tab[role] = sat_runtime(t.piecewise)
+            tab[role] = t.piecewise.runtime()
         return tab
 
     def __call__(self, p, a, fused=False):

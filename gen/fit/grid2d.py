@@ -483,52 +483,27 @@ def domain_grid(dom, n_p, n_v, p_log=None):
 
 
 def saturation_helper(dom, fmt, tol_abs, goal="smallest", verify_points=20_000, name="sat"):
-    """The run-time S(p) as a verified one-input table (:class:`gen.build.Table`).
-
-    Built by :func:`gen.build.build_table` over the grid's pressure range with an absolute
-    tolerance ``tol_abs`` in the second input's unit, restricted to the piecewise layouts
-    (``binade`` where the pressure is positive, and ``free``) so that the one-input C macro
-    renders it; the better one for ``goal`` is returned."""
-    from ..build import BuildError, build_table
-    from ..build import estimated_ops as ops1
-    from ..spec import InputSpec, TableSpec
+    """The run-time S(p) as a verified one-input table (:class:`gen.build.Table`), built by
+    :func:`gen.build.build_helper_table` over the grid's pressure range with an absolute
+    tolerance ``tol_abs`` in the second input's unit."""
+    from ..build import BuildError, build_helper_table
+    from ..spec import InputSpec
     if dom.sat_quantity is None:
         return None
     inp = InputSpec(quantity="pressure", unit=dom.p_unit, lo=float(dom.p_lo), hi=float(dom.p_hi),
                     scale=dom.p_scale, offset=dom.p_offset)
-    layouts = (["binade", "free"] if dom.p_lo > 0 else ["free"])
-    best, last = None, None
-    for layout in layouts:
-        ts = TableSpec(name=name, function=f"h2olut_{name}", quantity=dom.sat_quantity,
-                       description="saturation helper of a two-input table", inputs=(inp,),
-                       output_unit=dom.v_unit, out_scale=dom.v_scale, out_offset=dom.v_offset,
-                       tol_kind="abs", tol_value=float(tol_abs), arithmetic=fmt,
-                       policy="clamp", goal=goal, layout=layout, verify_points=verify_points)
-        try:
-            t = build_table(ts)
-        except BuildError as e:
-            last = e
-            continue
-        pw = t.piecewise
-        key = ((pw.storage_bytes, ops1(pw)) if goal == "smallest"
-               else (ops1(pw), pw.storage_bytes))
-        if best is None or key < best[0]:
-            best = (key, t)
-    if best is None:
+    try:
+        return build_helper_table(dom.sat_quantity, inp, dom.v_unit, dom.v_scale, dom.v_offset,
+                                  "abs", tol_abs, fmt, goal, name=name,
+                                  verify_points=verify_points)
+    except BuildError as e:
         raise DomainError(f"the saturation helper ({dom.sat_quantity} within "
-                          f"{tol_abs:.3g} {dom.v_unit}) cannot be built: {last}")
-    return best[1]
+                          f"{tol_abs:.3g} {dom.v_unit}) cannot be built: {e}") from None
 
 
 def sat_runtime(pw):
     """Keyword arguments of :func:`gen.arith.evaluate` for a one-input table, in its format."""
-    ft = arith.FORMATS[pw.fmt]
-    return {"fmt": pw.fmt, "layout": pw.layout, "lo": pw.lo, "hi": pw.hi, "policy": pw.policy,
-            "coef": pw.coef.astype(ft),
-            "x": None if pw.x is None else np.asarray(pw.x).astype(ft),
-            "inv_w": None if pw.inv_w is None else np.asarray(pw.inv_w).astype(ft),
-            "x0": None if pw.x0 is None else ft(pw.x0),
-            "inv_h": None if pw.inv_h is None else ft(pw.inv_h), "k": pw.k, "key0": pw.key0}
+    return pw.runtime()
 
 
 # ---------------------------------------------------------------------------------------------

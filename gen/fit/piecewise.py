@@ -91,6 +91,18 @@ class Piecewise1D:
             b = arith.binade_breakpoint(keys, self.fmt, self.k).astype(np.float64)
         return np.clip(b, self.lo, self.hi)
 
+    def runtime(self):
+        """Keyword arguments of :func:`gen.arith.evaluate` for this table, in its format (what
+        a larger function keeping it as a helper hands to the run time)."""
+        ft = arith.FORMATS[self.fmt]
+        return {"fmt": self.fmt, "layout": self.layout, "lo": self.lo, "hi": self.hi,
+                "policy": self.policy, "coef": self.coef.astype(ft),
+                "x": None if self.x is None else np.asarray(self.x).astype(ft),
+                "inv_w": None if self.inv_w is None else np.asarray(self.inv_w).astype(ft),
+                "x0": None if self.x0 is None else ft(self.x0),
+                "inv_h": None if self.inv_h is None else ft(self.inv_h), "k": self.k,
+                "key0": self.key0}
+
     def __call__(self, xin, fused=False):
         """The emitted function, emulated in the target arithmetic (``fused``: with FMA)."""
         ft = arith.FORMATS[self.fmt]
