@@ -381,9 +381,17 @@ def test_compiled_c_equals_emulation_bit_for_bit(steam, water, backward, supercr
      ["low-pressure edge 0.0005 MPa", "lowest saturation pressure"]),
     (("density", "vapor", 0.1, 4.0, 5.0, 450.0), dict(near_rel=True, far_rel=False), 1e-8,
      ["below what float32 can deliver", "smallest feasible"]),
+    (("density", "supercritical", 22.2, 25.0, 366.85, 386.85), dict(near_rel=False,
+                                                                    far_rel=False), 1e-3,
+     ["within 0.62 % of the critical point", "(22.064 MPa, 373.946 degC)",
+      "p = 22.2 MPa", "keep 1 % away"]),
+    (("temperature", "vapor", 10.0, 20.0, 5.0, 2900.0),
+     dict(near_rel=True, far_rel=False, second="specific_enthalpy", v_unit="kJ/kg"), 1e-5,
+     ["crosses the region 2/3 boundary (B23)", "h = ", "kJ/kg", "split the range there"]),
 ])
 def test_bad_domains_are_refused_with_a_clear_message(args, kw, tol, words):
-    dom = G.make_domain(*args, p_unit="MPa", v_unit="degC", **kw)
+    kw = dict(dict(p_unit="MPa", v_unit="degC"), **kw)
+    dom = G.make_domain(*args, **kw)
     with pytest.raises(G.DomainError) as e:
         G.build_grid(dom, "rel", tol, candidates=(("bilinear", ("free", "free")),),
                      verify_points=2000)

@@ -83,6 +83,7 @@ _KIND = {"temperature": "temperature", "specific_enthalpy": "specific_energy",
 _WORDS = {"temperature": "temperature", "specific_enthalpy": "specific enthalpy",
           "specific_entropy": "specific entropy"}
 _SYMBOL = {"temperature": "T_sat", "specific_enthalpy": "h_sat", "specific_entropy": "s_sat"}
+_LETTER = {"temperature": "T", "specific_enthalpy": "h", "specific_entropy": "s"}
 
 #: share of the tolerance given to the saturation helper's error (propagated through the grid)
 HELPER_SHARE = 0.15
@@ -103,6 +104,9 @@ EDGE_POINTS = 256
 RANDOM_SHARE_MIN = 0.25
 #: a step of the core across a region boundary above this share of the tolerance is refused
 STEP_SHARE = 0.25
+#: a supercritical range must keep this relative distance from the critical point in pressure
+#: or in temperature (properties there are too steep for a grid; a product choice)
+CRITICAL_MARGIN = 0.01
 #: goal "fastest" takes the candidate storing the fewest bytes among those whose estimated
 #: operations per call are at most this share more than the fewest found. Chosen from the four
 #: float32 cases of bench/grids.py (callgrind, gcc -O2, x86-64): uniform bilinear grids in the
@@ -433,15 +437,37 @@ def check_domain(dom, tol_kind=None, tol=None):
         k = int(bad[0])
         raise DomainError(f"the core has no value at (p = {_pt(dom, pp[k])}, "
                           f"{_WORDS[dom.second]} = {_vt(dom, vv[k])}): outside IF97's validity")
-    # region boundaries: where the core steps
-    if dom.second == "temperature":
+    # the critical region: a supercritical table must keep CRITICAL_MARGIN from it
+    if dom.phase == "supercritical":
+        T = dom.v_si(vv) if dom.second == "temperature" else np.asarray(
+            Q.evaluate("temperature", mask=True, pressure=dom.p_si(pp),
+                       **{dom.second: dom.v_si(vv)}), dtype=np.float64)
+        d = np.maximum(np.abs(dom.p_si(pp) / PC - 1.0), np.abs(T / TC - 1.0))
+        k = int(np.nanargmin(d))
+        if d[k] < CRITICAL_MARGIN:
+            raise DomainError(
+                f"the range comes within {d[k] * 100:.2g} % of the critical point "
+                f"({_pt(dom, pu(PC))}, {_vt(dom, vu(TC)) if dom.second == 'temperature' else f'{TC:g} K'}) "
+                f"at (p = {_pt(dom, pp[k])}, {_WORDS[dom.second]} = {_vt(dom, vv[k])}); "
+                f"properties are too steep to tabulate there: keep "
+                f"{CRITICAL_MARGIN * 100:g} % away in pressure or temperature")
+    # region boundaries: where the core steps; for a second input other than temperature the
+    # boundary temperature is mapped to that input through the core's forward value
+    if dom.second in ("temperature", "specific_enthalpy", "specific_entropy"):
+        key = {"specific_enthalpy": "specific_enthalpy", "specific_entropy": "specific_entropy"}
+        side_phase = {"vapor": "vapor", "liquid": "liquid"}.get(dom.phase)
         for name, (b_lo, b_hi), tb in _boundaries():
             lo, hi = max(p_lo_si, b_lo), min(p_hi_si, b_hi)
             if lo >= hi:
                 continue
             psi = np.linspace(lo, hi, 129)
             p_user = pu(psi)
-            tv = dom.v_user(tb(psi))
+            if dom.second == "temperature":
+                tv = dom.v_user(tb(psi))
+            else:
+                tv = dom.v_user(np.asarray(Q.evaluate(key[dom.second], mask=True,
+                                                      phase=side_phase, pressure=psi,
+                                                      temperature=tb(psi)), dtype=np.float64))
             near, far = dom.limits(p_user)
             inside = (tv - np.minimum(near, far) > 0) & (np.maximum(near, far) - tv > 0)
             if not inside.any():
@@ -455,8 +481,8 @@ def check_domain(dom, tol_kind=None, tol=None):
             k = int(np.argmax(rel))
             if tol is not None and rel[k] > STEP_SHARE * tol:
                 raise DomainError(
-                    f"the range crosses {name} near (p = {_pt(dom, p_in[k])}, T = "
-                    f"{_vt(dom, t_in[k])}), where the core's {dom.quantity.replace('_', ' ')} "
+                    f"the range crosses {name} near (p = {_pt(dom, p_in[k])}, "
+                    f"{_LETTER[dom.second]} = {_vt(dom, t_in[k])}), where the core's {dom.quantity.replace('_', ' ')} "
                     f"steps by {step[k]:.3g} {dom.out_unit} ({rel[k] / tol:.2g} times the "
                     f"tolerance); split the range there")
             notes.append(f"crosses {name}; the core steps by at most {step[k]:.3g} "
