@@ -99,7 +99,9 @@ def table_record_2d(table):
                 [float(v["at"][0]), float(v["at"][1])])
     rec.update({
         "verification": _verification(v, gt.floor, max_by_kind=v.get("max_by_kind"),
-                                      order_reversals=v.get("reversals")),
+                                      order_reversals=v.get("reversals"),
+                                      points_requested=v.get("requested"),
+                                      left_out_as_fit_points=v.get("left_out")),
         "method": {
             "kind": "grid",
             "layout": f"{g.x.layout}/{g.y.layout}",
