@@ -35,6 +35,7 @@ sys.path.insert(0, str(HERE.parent))
 
 from gen import arith  # noqa: E402
 from gen.emit.common import template_env  # noqa: E402
+from gen.emit.grid2d import grid_c_context  # noqa: E402
 from gen.fit import grid2d as G  # noqa: E402
 from gen.if97 import region1, region2  # noqa: E402
 
@@ -317,7 +318,7 @@ def instructions(gt, workdir, tag):
     fn = "b_grid"
     env = template_env()
     src = env.from_string('{% from "c_grid2d.j2" import grid2d, grid2d_decl %}' + SOURCE)
-    ctx = G.grid_c_context(gt, fn, "grid")
+    ctx = grid_c_context(gt, fn, "grid")
     (d / "g.c").write_text(src.render(g=ctx))
     prob = G.Problem(gt.domain, gt.tol_kind, gt.tol, "float32")
     p, v = prob.random_inputs(1024, 7)

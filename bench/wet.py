@@ -30,7 +30,8 @@ from grids import CALL_N, DRIVER, callgrind  # noqa: E402
 
 from gen.emit.common import template_env  # noqa: E402
 from gen.spec import parse_spec  # noqa: E402
-from gen.wet import build_wet_table, wet_c_context, verification_inputs  # noqa: E402
+from gen.emit.wet import wet_c_context  # noqa: E402
+from gen.wet import build_wet_table, verification_inputs  # noqa: E402
 
 CASES = [
     ("quality, 1-40 bar, 0.001", "quality", "{ abs = 0.001 }", "", 1.0, 40.0),

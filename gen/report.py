@@ -205,7 +205,7 @@ def report_markdown(spec, tables, plots):
               "|---|---|---|---|---|---|---|---|"]
     for t in tables:
         if table_kind(t) == "wet":
-            from .wet import wet_summary
+            from .emit.wet import wet_summary
             g = wet_summary(t)
             lines.append(f"| `{t.spec.function}` | {_md(t.spec.quantity)} [{_md(g['output_unit'])}] | "
                          f"{_md(g['domain'])} | {_md(g['tolerance'])} | {_md(g['max_error'])} | "
@@ -213,7 +213,7 @@ def report_markdown(spec, tables, plots):
                          f"tables |")
             continue
         if _is_two(t):
-            from .fit.grid2d import grid_summary
+            from .emit.grid2d import grid_summary
             g = grid_summary(t.gt)
             lines.append(f"| `{t.spec.function}` | {_md(t.spec.quantity)} [{_md(g['output_unit'])}] | "
                          f"{_md(g['domain'])} | {_md(g['tolerance'])} | {_md(g['max_error'])} | "
@@ -290,7 +290,7 @@ def report_markdown(spec, tables, plots):
 
 
 def _markdown_2d(t, plot):
-    from .fit.grid2d import grid_summary
+    from .emit.grid2d import grid_summary
     g = grid_summary(t.gt)
     v = t.gt.verification
     lines = [f"## `{t.spec.function}`: {_md(g['quantity'])} from pressure and {_md(g['second'])}",
@@ -350,7 +350,7 @@ def _budget_lines_2d(t, unit):
 
 
 def _markdown_wet(t, plot):
-    from .wet import wet_summary
+    from .emit.wet import wet_summary
     g = wet_summary(t)
     v = t.verification
     lines = [f"## `{t.spec.function}`: {_md(g['quantity'])} of wet steam from pressure and "

@@ -11,8 +11,9 @@ sensitivity to each (worst case over the dome), the members are built by the one
 pipeline, and the whole function is verified in the target arithmetic against the core; when
 it misses, the members are tightened and rebuilt.
 
-Offers ``OUTPUTS``, ``P_WET_MAX``, ``WetTable``, ``build_wet_table(ts)``,
-``wet_summary(wt)``, ``wet_c_context(wt)``, ``wet_vector_points(wt)``.
+Offers ``OUTPUTS``, ``P_WET_MAX``, ``WetTable``, ``build_wet_table(ts)``, ``reference(ts, p,
+a)``, ``verify_wet(wt, n, seed)``, ``wet_vector_points(wt)``; the views are in
+:mod:`gen.emit.wet`.
 """
 
 import hashlib
@@ -55,10 +56,6 @@ _PAIRS = {"enthalpy": ("saturated_liquid_enthalpy", "saturated_vapor_enthalpy"),
 _SIDE = {"specific_enthalpy": "enthalpy", "specific_entropy": "entropy"}
 _WORD = {"liq": "saturated-liquid", "vap": "saturated-vapour", "out_liq": "saturated-liquid",
          "out_vap": "saturated-vapour", "tsat": "saturation temperature"}
-
-
-def _g(v, n=6):
-    return f"{float(v):.{n}g}"
 
 
 @dataclass(frozen=True)
@@ -486,92 +483,7 @@ def build_wet_table(ts, progress=None, layouts=None, degree=None):
 
 
 # ---------------------------------------------------------------------------------------------
-# views: plain strings for comments and the report, the C context, test-vector inputs
-
-
-def _second_word(ts):
-    return ts.inputs[1].quantity.replace("_", " ")
-
-
-def wet_summary(wt):
-    """Plain strings describing a wet-steam table, for the C comments and the report."""
-    ts, v = wt.spec, wt.verification
-    pin, ain = ts.inputs
-    unit = ts.output_unit or "1"
-    sp = f" {ts.output_unit}" if ts.output_unit else ""
-    tol = (f"{ts.tol_value:g}{sp}" if ts.tol_kind == "abs"
-           else f"{ts.tol_value * 100:g} % of the value")
-
-    def err(e):
-        return f"{e:.3g}{sp}" if ts.tol_kind == "abs" else f"{e * 100:.3g} %"
-
-    at = v["at"]
-    out = {"quality": "quality x", "saturation": "saturation temperature at p",
-           "lever": f"{ts.quantity.replace('_', ' ')} b' + x (b'' - b')",
-           "inverse_lever": "density 1 / (v' + x (v'' - v'))"}[wt.combine]
-    tables = ", ".join(f"{t.spec.quantity.replace('_', ' ')} ({t.piecewise.nseg} x degree "
-                       f"{t.piecewise.degree}, {t.piecewise.layout}, {t.piecewise.storage_bytes} "
-                       f"B)" for t in wt.members.values())
-    ctype = "float" if wt.fmt == "float32" else "double"
-    return {
-        "quantity": ts.quantity.replace("_", " "),
-        "description": ts.description,
-        "output_unit": unit,
-        "p_unit": pin.unit,
-        "second": _second_word(ts),
-        "v_unit": ain.unit,
-        "domain": (f"wet steam, pressure {_g(pin.lo)} to {_g(pin.hi)} {pin.unit}, "
-                   f"{_second_word(ts)} between saturated liquid and saturated vapour"),
-        "tolerance": tol,
-        "max_error": err(v["max_error"]),
-        "max_error_at": f"p = {_g(at[0])} {pin.unit}, {_second_word(ts)} = {_g(at[1])} {ain.unit}",
-        "points": v["points"],
-        "verified": (f"{err(v['max_error'])} at p = {_g(at[0])} {pin.unit}, "
-                     f"{_second_word(ts)} = {_g(at[1])} {ain.unit}, the largest of "
-                     f"{v['points']} sampled points inside the dome (member breakpoints and "
-                     f"neighbours, dome edges, seeded random) of the whole function in "
-                     f"{wt.fmt} emulation against the IF97 core; a sampled maximum, not a bound"),
-        "fused": None if v.get("max_error_fused") is None else err(v["max_error_fused"]),
-        "quality_error": f"{v['quality_max_error']:.2g}",
-        "method": (f"quality x = (a - a'(p)) / (a''(p) - a'(p)) from saturation tables of "
-                   f"pressure, clamped to [0, 1]; output {out}. Tables: {tables}"),
-        "storage": f"{wt.storage_bytes} bytes ({wt.stored_values()} {ctype} values)",
-        "policy": {"clamp": "a pressure outside the range is clamped to it, a point outside "
-                            "the dome gets the value at its edge; NaN gives NaN",
-                   "nan": "a pressure outside the range or a point outside the dome gives "
-                          "NaN; NaN gives NaN"}[wt.policy],
-        "dome": (f"SUBCOOLED where the run time's quality is below 0, SUPERHEATED "
-                 f"above 1; the run time's quality is within {v['quality_max_error']:.2g} of "
-                 f"the core's, so the status can be wrong only that close to the dome's edge"),
-    }
-
-
-def wet_c_context(wt):
-    """The dict the ``wet`` macro of ``templates/c_wet.j2`` renders."""
-    from .emit.c import table_context
-    from .emit.common import c_comment, decimal, hex_literal
-    ts = wt.spec
-    fn = ts.function
-    priv = fn[:len(fn) - len(ts.name) - 1] + "__" + ts.name
-    s = {k: (c_comment(v) if isinstance(v, str) else v) for k, v in wet_summary(wt).items()}
-    mems = []
-    for role, t in wt.members.items():
-        c = table_context(t)
-        c["fn"] = c["priv"] = f"{priv}_{role}"
-        c["UP"] = c["fn"].upper()
-        mems.append(c)
-    ctx = {"s": s, "fn": fn, "priv": priv, "UP": fn.upper(), "fmt": wt.fmt,
-           "ctype": "float" if wt.fmt == "float32" else "double",
-           "combine": wt.combine, "policy": wt.policy, "members": mems,
-           "roles": {role: f"{priv}_{role}" for role in wt.members},
-           "p_lo": {"lit": hex_literal(arith.to_format(wt.p_lo, wt.fmt), wt.fmt),
-                    "dec": decimal(wt.p_lo, wt.fmt)},
-           "p_hi": {"lit": hex_literal(arith.to_format(wt.p_hi, wt.fmt), wt.fmt),
-                    "dec": decimal(wt.p_hi, wt.fmt)},
-           "zero": hex_literal(0.0, wt.fmt), "one": hex_literal(1.0, wt.fmt),
-           "needs_string": any(t.piecewise.layout == "binade" for t in wt.members.values()),
-           "needs_math": True}
-    return ctx
+# test-vector inputs (the C and Python views and the summary are in gen.emit.wet)
 
 
 def wet_vector_points(wt, n_random=500):

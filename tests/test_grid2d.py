@@ -17,6 +17,7 @@ import pytest
 from gen import arith
 from gen import quantities as Q
 from gen.emit.common import template_env
+from gen.emit.grid2d import grid_c_context
 from gen.fit import grid2d as G
 
 from conftest import compile_c
@@ -289,7 +290,7 @@ int main(void)
 def render_source(tables):
     env = template_env()
     t = env.from_string('{% from "c_grid2d.j2" import grid2d, grid2d_decl %}' + SOURCE)
-    ctxs = [G.grid_c_context(gt, f"t_{name}", name) for name, gt in tables]
+    ctxs = [grid_c_context(gt, f"t_{name}", name) for name, gt in tables]
     return t.render(grids=ctxs)
 
 

@@ -209,9 +209,9 @@ def render_c(spec, tables, base, references):
     """Render NAME.h, NAME.c and NAME_vectors.c; ``references[name]`` is the core in user units."""
     env = template_env()
     guard = "".join(ch if ch.isalnum() else "_" for ch in base).upper() + "_H"
-    from ..fit.grid2d import grid_c_context
+    from .grid2d import grid_c_context
     ctxs = []
-    from ..wet import wet_c_context
+    from .wet import wet_c_context
     for t in tables:
         kind = table_kind(t)
         if kind == "grid":

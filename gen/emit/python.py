@@ -70,11 +70,11 @@ def render_python(spec, tables, base):
         kind = table_kind(t)
         kinds.add(kind)
         if kind == "grid":
-            from ..fit.grid2d import grid_c_context
+            from .grid2d import grid_c_context
             c = grid_c_context(t.gt, t.spec.function, t.spec.name)
             c["py_tab"] = py_literal(t.gt.grid.runtime(), t.gt.grid.fmt)
         elif kind == "wet":
-            from ..wet import wet_c_context
+            from .wet import wet_c_context
             c = wet_c_context(t)
             c["py_tab"] = py_literal(t.runtime(), t.fmt)
         else:

@@ -34,7 +34,6 @@ Offers
     ``build_grid(dom, tol_kind, tol, ...)``       candidates, choice for a goal, verification
     ``choose_candidate(rows, goal, max_ops)``     the choice (``NEAR_FASTEST`` for "fastest")
     ``GridTable``                                 what ``build_grid`` returns
-    ``grid_c_context(gt, function)``              the dict ``templates/c_grid2d.j2`` renders
     ``estimated_ops(grid)``                       rough operations per call, for ranking
 
 Methods: ``bilinear`` (four nodes per cell) and ``bicubic`` (four-node Lagrange interpolation
@@ -43,6 +42,8 @@ one stored value per node). Axes: ``free`` lines (binary search) or ``uniform`` 
 index). Every fit is checked on points that are never its nodes, in the target arithmetic
 emulated operation by operation (:mod:`gen.arith2d`); every maximum error here is the largest
 of the points named, a sampled measurement and not a bound.
+
+The C and Python views and the plain-text summary live in :mod:`gen.emit.grid2d`.
 
 Everything that decides emitted bits is elementwise numpy in a fixed order (no BLAS) on fixed
 point sets from seeded generators.
@@ -80,7 +81,7 @@ _SAT_QUANTITY = {
 }
 _KIND = {"temperature": "temperature", "specific_enthalpy": "specific_energy",
          "specific_entropy": "specific_entropy", "pressure": "pressure"}
-_WORDS = {"temperature": "temperature", "specific_enthalpy": "specific enthalpy",
+INPUT_WORDS = {"temperature": "temperature", "specific_enthalpy": "specific enthalpy",
           "specific_entropy": "specific entropy"}
 _SYMBOL = {"temperature": "T_sat", "specific_enthalpy": "h_sat", "specific_entropy": "s_sat"}
 _LETTER = {"temperature": "T", "specific_enthalpy": "h", "specific_entropy": "s"}
@@ -324,7 +325,7 @@ def describe_domain(dom):
     """One line in the user's units, e.g. 'pressure 0.1 to 4 MPa; temperature from ...'."""
     side = {"vapor": "vapour side of saturation", "liquid": "liquid side of saturation",
             "supercritical": "no saturation inside"}[dom.phase]
-    return (f"pressure {_g(dom.p_lo)} to {_g(dom.p_hi)} {dom.p_unit}; {_WORDS[dom.second]} "
+    return (f"pressure {_g(dom.p_lo)} to {_g(dom.p_hi)} {dom.p_unit}; {INPUT_WORDS[dom.second]} "
             f"from {_describe_limit(dom, 'near')} to {_describe_limit(dom, 'far')} ({side})")
 
 
@@ -391,7 +392,7 @@ def check_domain(dom, tol_kind=None, tol=None):
                     f"100 MPa, to 2273.15 K up to 50 MPa)")
         elif not p_lo_si > PC:
             raise DomainError(f"a supercritical table from ({_pt(dom, dom.p_lo)}, "
-                              f"{_WORDS[dom.second]}) needs p above {_pt(dom, pu(PC))}")
+                              f"{INPUT_WORDS[dom.second]}) needs p above {_pt(dom, pu(PC))}")
     # sides of saturation and order of the limits, corner by corner
     if dom.side:
         ps_user = np.array([dom.p_lo, dom.p_hi], dtype=np.float64)
@@ -399,7 +400,7 @@ def check_domain(dom, tol_kind=None, tol=None):
         S = dom.sat(pdense)
         near, far = dom.limits(pdense)
         sgn = dom.side
-        word = _WORDS[dom.second]
+        word = INPUT_WORDS[dom.second]
         bad = np.nonzero((near - S) * sgn < 0)[0]
         if bad.size:
             k = int(bad[np.argmin((near[bad] - S[bad]) * sgn)])
@@ -436,7 +437,7 @@ def check_domain(dom, tol_kind=None, tol=None):
     if bad.size:
         k = int(bad[0])
         raise DomainError(f"the core has no value at (p = {_pt(dom, pp[k])}, "
-                          f"{_WORDS[dom.second]} = {_vt(dom, vv[k])}): outside IF97's validity")
+                          f"{INPUT_WORDS[dom.second]} = {_vt(dom, vv[k])}): outside IF97's validity")
     # the critical region: a supercritical table must keep CRITICAL_MARGIN from it
     if dom.phase == "supercritical":
         T = dom.v_si(vv) if dom.second == "temperature" else np.asarray(
@@ -448,7 +449,7 @@ def check_domain(dom, tol_kind=None, tol=None):
             raise DomainError(
                 f"the range comes within {d[k] * 100:.2g} % of the critical point "
                 f"({_pt(dom, pu(PC))}, {_vt(dom, vu(TC)) if dom.second == 'temperature' else f'{TC:g} K'}) "
-                f"at (p = {_pt(dom, pp[k])}, {_WORDS[dom.second]} = {_vt(dom, vv[k])}); "
+                f"at (p = {_pt(dom, pp[k])}, {INPUT_WORDS[dom.second]} = {_vt(dom, vv[k])}); "
                 f"properties are too steep to tabulate there: keep "
                 f"{CRITICAL_MARGIN * 100:g} % away in pressure or temperature")
     # region boundaries: where the core steps; for a second input other than temperature the
@@ -2088,150 +2089,3 @@ def build_grid(dom, tol_kind, tol, fmt="float32", policy="clamp", goal="smallest
     return GridTable(domain=dom, grid=g, verification=v, candidates=rows, tol_kind=tol_kind,
                      tol=float(tol), goal=goal, floor=floor, helper=helper, notes=notes,
                      seconds=time.perf_counter() - t0, fits=grids)
-
-
-# ---------------------------------------------------------------------------------------------
-# the C view: the dict templates/c_grid2d.j2 renders
-
-
-def _lits(values, fmt, per_line=4):
-    from ..emit.common import hex_literal
-    lits = [hex_literal(v, fmt) for v in values]
-    return [", ".join(lits[i:i + per_line]) for i in range(0, len(lits), per_line)]
-
-
-def _lit(v, fmt):
-    from ..emit.common import decimal, hex_literal
-    return {"lit": hex_literal(arith.to_format(v, fmt), fmt), "dec": decimal(v, fmt)}
-
-
-def _axis_context(ax, method, fmt, unit):
-    from ..emit.common import c_comment
-    d = {"layout": ax.layout, "n": ax.n, "lo": _lit(ax.lo, fmt), "hi": _lit(ax.hi, fmt),
-         "unit": c_comment(unit)}
-    if ax.layout == "mapped":
-        d["nbins"] = int(np.asarray(ax.map).size)
-        d["b0"] = _lit(ax.b0, fmt)
-        d["inv_hb"] = _lit(ax.inv_hb, fmt)
-        d["mtype"] = "uint8_t" if ax.map_itemsize == 1 else "uint16_t"
-        m = [f"{int(k)}u" for k in np.asarray(ax.map)]
-        d["map"] = [", ".join(m[i:i + 16]) for i in range(0, len(m), 16)]
-        d["steps"] = ax.steps
-    if ax.layout == "uniform":
-        d["x0"] = _lit(ax.x0, fmt)
-        d["inv_h"] = _lit(ax.inv_h, fmt)
-    elif method == "bilinear":
-        d["nlines"] = ax.n - 1
-        d["lines"] = _lits(np.asarray(ax.lines)[:-1], fmt)
-        d["iw"] = _lits(ax.iw, fmt)
-    else:
-        d["nlines"] = ax.n
-        d["lines"] = _lits(ax.lines, fmt)
-        d["den"] = [", ".join(_lits(r, fmt, 4)) for r in np.asarray(ax.den)]
-    return d
-
-
-def grid_summary(gt):
-    """Plain strings describing a two-input table, for the C error block and the report."""
-    dom, g, v = gt.domain, gt.grid, gt.verification
-    tol = (f"{gt.tol:g} {dom.out_unit}" if gt.tol_kind == "abs"
-           else f"{gt.tol * 100:g} % of the value")
-
-    def err(e):
-        return (f"{e:.3g} {dom.out_unit}" if gt.tol_kind == "abs" else f"{e * 100:.3g} %")
-
-    at = v["at"]
-    raw = (f"{_WORDS[dom.second]} itself" if not g.side else
-           f"{_WORDS[dom.second]} itself on a box over the raw inputs, clamped first to its "
-           f"limits at p" + ("; nodes beyond saturation from the phase's own equation continued "
-                             "past it" if (g.near_rel or g.far_rel) else ""))
-    coord = {"raw": raw,
-             "offset": (f"{'superheat' if dom.side > 0 else 'subcooling'} "
-                        f"y = {'v - S(p)' if dom.side > 0 else 'S(p) - v'} in {dom.v_unit}"
-                        + ("" if dom.near_rel and dom.far_rel else
-                           "; absolute limits clamp v first, so part of the grid is not "
-                           "reached")),
-             "normalized": "y = (v - near(p)) / (far(p) - near(p)), one division"}[g.coord]
-    method = {"bilinear": "bilinear interpolation of node values",
-              "bicubic": "four-node Lagrange interpolation per axis over 4x4 node values "
-                         "(continuous, not smooth, across cell edges)"}[g.method]
-    lay = {"free": "free lines, binary search", "uniform": "equal spacing, index computed",
-           "mapped": "free lines, cell from a bin table and at most a few steps"}
-    ctype = "float" if g.fmt == "float32" else "double"
-    hb = g.helper.storage_bytes if g.helper is not None else 0
-    return {
-        "quantity": dom.quantity.replace("_", " "),
-        "output_unit": dom.out_unit,
-        "p_unit": dom.p_unit,
-        "second": _WORDS[dom.second],
-        "v_unit": dom.v_unit,
-        "domain": describe_domain(dom),
-        "tolerance": tol,
-        "max_error": err(v["max_error"]),
-        "max_error_at": f"p = {_g(at[0])} {dom.p_unit}, {_WORDS[dom.second]} = {_g(at[1])} "
-                        f"{dom.v_unit}",
-        "points": v["points"],
-        "verified": (f"{err(v['max_error'])} at p = {_g(at[0])} {dom.p_unit}, "
-                     f"{_WORDS[dom.second]} = {_g(at[1])} {dom.v_unit}, the largest of "
-                     f"{v['points']} sampled points (edges and corner neighbours, grid lines "
-                     f"and neighbours, cell interiors, seeded random; none a node or check point "
-                     f"of the fit) of the whole function in {g.fmt} emulation against the IF97 "
-                     f"core; a sampled maximum, not a bound"),
-        "fused": None if v.get("max_error_fused") is None else err(v["max_error_fused"]),
-        "method": (f"{method} on {g.nx} x {g.ny} nodes; pressure: {lay[g.x.layout]}; "
-                   f"second coordinate: {lay[g.y.layout]}"),
-        "coordinate": coord,
-        "storage": (f"{g.storage_bytes} bytes ({g.stored_values()} {ctype} values, of which "
-                    f"the saturation helper {hb} bytes)"),
-        "policy": {"clamp": "inputs outside the range are clamped to it (the second input to "
-                            "its limits at the clamped pressure); NaN gives NaN",
-                   "nan": "inputs outside the range give NaN; NaN gives NaN"}[g.policy],
-        "wrong_side": ("a point on the other side of the saturation line (as the helper sees "
-                       "it) gets the value at the nearest limit, and status WRONG_SIDE"
-                       if g.side else "no saturation inside"),
-    }
-
-
-def grid_c_context(gt, function, name=None):
-    """The dict the ``grid2d`` macro of ``templates/c_grid2d.j2`` renders, for table
-    ``gt`` (:class:`GridTable`) as C function ``function``; private names use ``name`` (the
-    table's name, as the one-input tables do: ``prefix__name``)."""
-    from ..emit.c import table_context
-    from ..emit.common import c_comment, decimal, hex_literal
-    g, dom, fmt = gt.grid, gt.domain, gt.grid.fmt
-    name = name or function
-    priv = (function[:len(function) - len(name) - 1] + "__" + name
-            if function.endswith("_" + name) else function + "__")
-    s = {k: (c_comment(v) if isinstance(v, str) else v) for k, v in grid_summary(gt).items()}
-    sat = None
-    if g.helper is not None:
-        sat = table_context(gt.helper)
-        sat["fn"] = priv + "_sat"
-        sat["priv"] = priv + "_sat"
-        sat["UP"] = sat["fn"].upper()
-    rows = []
-    pl = np.asarray(g.x.lines)
-    for i in range(g.nx):
-        rows.append({"lines": _lits(np.asarray(g.z)[i], fmt, 4),
-                     "note": f"p = {decimal(pl[i], fmt)} {c_comment(dom.p_unit)}"})
-    ctx = {
-        "s": s, "fn": function, "priv": priv, "UP": function.upper(), "fmt": fmt,
-        "ctype": "float" if fmt == "float32" else "double",
-        "method": g.method, "coord": g.coord, "side": g.side, "policy": g.policy,
-        "transform": g.transform, "near_rel": g.near_rel, "far_rel": g.far_rel,
-        "near": _lit(g.near, fmt), "far": _lit(g.far, fmt),
-        "p_lo": _lit(g.x.lo, fmt), "p_hi": _lit(g.x.hi, fmt),
-        "y_lo": _lit(g.y.lo, fmt), "y_hi": _lit(g.y.hi, fmt),
-        "x": _axis_context(g.x, g.method, fmt, dom.p_unit),
-        "y": _axis_context(g.y, g.method, fmt, {"offset": dom.v_unit, "raw": dom.v_unit,
-                                                 "normalized": "1"}[g.coord]),
-        "nx": g.nx, "ny": g.ny, "z_rows": rows, "sat": sat,
-        "one": hex_literal(1.0, fmt), "two": hex_literal(2.0, fmt),
-        "three": hex_literal(3.0, fmt), "half": hex_literal(0.5, fmt),
-        "m_half": hex_literal(-0.5, fmt),
-        "sixth": hex_literal(arith.to_format(1.0 / 6.0, fmt), fmt),
-        "m_sixth": hex_literal(arith.to_format(-1.0 / 6.0, fmt), fmt),
-        "needs_string": g.helper is not None and g.helper.layout == "binade",
-        "needs_math": g.policy == "nan",
-    }
-    return ctx
