@@ -99,7 +99,8 @@ def build(spec, outdir):
     for t in tables:
         ts, v = t.spec, t.verification
         if ts.tol_kind == "abs":
-            err = f"{v['max_error']:.3g} {ts.output_unit} (tolerance {ts.tol_value:g})"
+            unit = f" {ts.output_unit}" if ts.output_unit else ""
+            err = f"{v['max_error']:.3g}{unit} (tolerance {ts.tol_value:g})"
         else:
             err = f"{v['max_error'] * 100:.3g} % (tolerance {ts.tol_value * 100:g} %)"
         if getattr(t, "gt", None) is not None:
