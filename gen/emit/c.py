@@ -18,10 +18,13 @@ RANDOM_VECTORS = 500
 
 
 def _rows(coef, fmt, starts, unit):
+    """One row of hex literals per segment, with the segment's start and the decimal value
+    of every literal for the comment above it."""
     rows = []
     for i, c in enumerate(coef):
         lits = ", ".join(hex_literal(v, fmt) for v in c)
-        rows.append({"lits": lits, "note": f"segment {i}: from {starts[i]:.8g} {c_comment(unit)}"})
+        rows.append({"lits": lits, "note": f"segment {i}: from {starts[i]:.8g} {c_comment(unit)}",
+                     "decs": ", ".join(decimal(v, fmt) for v in c)})
     return rows
 
 

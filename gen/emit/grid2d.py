@@ -129,7 +129,10 @@ def grid_c_context(gt, function, name=None):
     rows = []
     pl = np.asarray(g.x.lines)
     for i in range(g.nx):
-        rows.append({"lines": _lits(np.asarray(g.z)[i], fmt, 4),
+        z = np.asarray(g.z)[i]
+        decs = [decimal(v, fmt) for v in z]
+        rows.append({"lines": _lits(z, fmt, 4),
+                     "decs": [", ".join(decs[k:k + 4]) for k in range(0, len(decs), 4)],
                      "note": f"p = {decimal(pl[i], fmt)} {c_comment(dom.p_unit)}"})
     ctx = {
         "s": s, "fn": function, "priv": priv, "UP": function.upper(), "fmt": fmt,
