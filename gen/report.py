@@ -431,7 +431,7 @@ def error_map_wet(table):
     ax.set_ylabel(f"{ain.quantity.replace('_', ' ')} [{ain.unit}]")
     ax.set_title(f"{ts.function}: wet steam, {len(wt.members)} saturation tables, {wt.fmt}",
                  fontsize=9)
-    ax.legend(loc="upper left", fontsize=7)
+    ax.legend(loc="lower right", fontsize=7)
     fig.subplots_adjust(left=0.1, right=0.98, top=0.9, bottom=0.13)
     buf = io.BytesIO()
     fig.savefig(buf, format="png", metadata={"Software": None})
