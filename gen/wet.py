@@ -37,6 +37,10 @@ DOME_QUALITY = 1e-3
 MEMBER_SHARE = 0.8
 #: rebuilds with tighter members before the table is given up
 MAX_ATTEMPTS = 5
+#: a table verified below this share of its tolerance is rebuilt with looser members (at
+#: most RELAX_ATTEMPTS times), kept when it still meets the tolerance and stores less
+RELAX_BELOW = 0.6
+RELAX_ATTEMPTS = 2
 #: points of the check made after each (re)build, before the full verification
 QUICK_POINTS = 20_000
 #: points each member table is verified on by itself (the whole function is verified apart)
@@ -418,18 +422,24 @@ def build_wet_table(ts, progress=None, layouts=None, degree=None):
             f"feasible is {feasible:g}")
     notes = []
     seed = _seed(ts, "final")
-    wt = None
-    for attempt in range(MAX_ATTEMPTS):
+    rows = []
+    # the status pair of a saturation-temperature table does not reach the output: its
+    # tolerance stays as set when the others are tightened or relaxed
+    scaled = {m.role for m in members
+              if not (combine == "saturation" and m.role in ("liq", "vap"))}
+
+    def attempt(tols):
+        """Build the members for ``tols`` and verify the whole function: (table or None,
+        its error or the quick check's)."""
         built = {}
         for m in members:
             kind, value = tols[m.role]
             if progress:
                 progress(f"{ts.name}: {_WORD[m.role]} {m.quantity} within {value:.3g}"
                          f"{'' if kind == 'abs' else ' (relative)'}")
-            inp = pin
             try:
                 built[m.role] = build_helper_table(
-                    m.quantity, inp, m.unit, m.scale, m.offset, kind,
+                    m.quantity, pin, m.unit, m.scale, m.offset, kind,
                     max(value, 3.05 * mem_floor[m.role]), fmt, ts.goal,
                     name=f"{ts.name}_{m.role}", verify_points=MEMBER_POINTS,
                     layouts=layouts, degree=degree)
@@ -437,31 +447,55 @@ def build_wet_table(ts, progress=None, layouts=None, degree=None):
                 raise BuildError(f"table {ts.name!r}: the {_WORD[m.role]} table "
                                  f"({m.quantity}) cannot be built: {e}") from None
         wt = WetTable(spec=ts, combine=combine, members=built, p_lo=lo, p_hi=hi, floor=floor)
-        quick = verify_wet(wt, QUICK_POINTS, _seed(ts, f"quick{attempt}"))
-        row = {"attempt": attempt + 1,
+        quick = verify_wet(wt, QUICK_POINTS, _seed(ts, f"quick{len(rows)}"))
+        row = {"attempt": len(rows) + 1,
                "member_tolerances": {r: {k: float(v)} for r, (k, v) in tols.items()},
                "storage_bytes": wt.storage_bytes, "estimated_ops": wt.estimated_ops(),
                "quick_max_error": quick["max_error"], "met": False}
-        wt.candidates.append(row)
-        if quick["max_error"] <= ACCEPT * tol:
-            full = verify_wet(wt, ts.verify_points, seed)
-            row["max_error"] = full["max_error"]
-            if full["max_error"] <= tol:
-                row["met"] = True
-                wt.verification = full
-                break
-            err = full["max_error"]
-        else:
-            err = quick["max_error"]
-        f = min(0.7, 0.9 * tol / max(err, 1e-300))
-        tols = {r: (k, v * f) for r, (k, v) in tols.items()}
+        rows.append(row)
+        if quick["max_error"] > ACCEPT * tol:
+            return None, quick["max_error"]
+        full = verify_wet(wt, ts.verify_points, seed)
+        row["max_error"] = full["max_error"]
+        if full["max_error"] > tol:
+            return None, full["max_error"]
+        row["met"] = True
+        wt.verification = full
+        wt.candidates = [len(rows) - 1]      # its row, until the rows are attached below
+        return wt, full["max_error"]
+
+    def times(tols, f):
+        return {r: (k, v * f if r in scaled else v) for r, (k, v) in tols.items()}
+
+    best = None
+    for _ in range(MAX_ATTEMPTS):
+        wt, err = attempt(tols)
+        if wt is not None:
+            best = (wt, tols)
+            break
+        tols = times(tols, min(0.7, 0.9 * tol / max(err, 1e-300)))
     else:
         raise BuildError(f"table {ts.name!r}: no set of saturation tables met tolerance "
                          f"{tol:g} {unit} for wet steam over {pin.lo:g} to {pin.hi:g} "
                          f"{pin.unit} in {MAX_ATTEMPTS} tries; loosen the tolerance or narrow "
                          f"the pressure range")
-    for i, r in enumerate(wt.candidates):
-        r["chosen"] = i == len(wt.candidates) - 1
+    # the worst-case share-out leaves margin: relax the members while the whole function
+    # stays within tolerance and stores less
+    for _ in range(RELAX_ATTEMPTS):
+        wt, tols = best
+        err = wt.verification["max_error"]
+        if err >= RELAX_BELOW * tol:
+            break
+        looser = times(tols, min(3.0, 0.9 * tol / max(err, 1e-300)))
+        trial, _ = attempt(looser)
+        if trial is None or trial.storage_bytes >= wt.storage_bytes:
+            break
+        best = (trial, looser)
+    wt = best[0]
+    chosen = wt.candidates[0]
+    for i, r in enumerate(rows):
+        r["chosen"] = i == chosen
+    wt.candidates = rows
     v = wt.verification
     if v["inside_flagged_outside"]:
         notes.append(f"{v['inside_flagged_outside']} of the {v['points']} points inside the "

@@ -138,6 +138,12 @@ def test_every_table_verified_within_tolerance_on_enough_points(built):
         assert v["max_error"] <= t.spec.tol_value, t.name
         assert v["points"] >= t.spec.verify_points, t.name
         assert v.get("max_error_fused", 0.0) <= t.spec.tol_value, t.name
+        # the builds tried: one chosen, within tolerance, the fewest bytes of those that met
+        chosen = [r for r in t.candidates if r["chosen"]]
+        met = [r for r in t.candidates if r["met"]]
+        assert len(chosen) == 1 and chosen[0]["met"], t.name
+        assert chosen[0]["storage_bytes"] == t.storage_bytes == min(r["storage_bytes"]
+                                                                    for r in met), t.name
 
 
 def test_fresh_points_against_the_core_and_coolprop(built):
