@@ -289,20 +289,27 @@ def report_markdown(spec, tables, plots):
     return "\n".join(lines)
 
 
+def _two_input_head(t, g, what, fmt):
+    """Heading, description and the domain-to-FMA lines of a two-input table's section."""
+    lines = [f"## `{t.spec.function}`: {_md(g['quantity'])}{what} from pressure and "
+             f"{_md(g['second'])}", ""]
+    if t.spec.description:
+        lines += [_md(t.spec.description), ""]
+    fused = _md(g['fused']) if g['fused'] else 'not modelled for this format'
+    return lines + [
+        f"- domain: {_md(g['domain'])}",
+        f"- output: {_md(g['quantity'])} in {_md(g['output_unit'])}, {fmt}",
+        f"- tolerance: {_md(g['tolerance'])}",
+        f"- verified: {_md(g['verified'])}",
+        f"- with fused multiply-add (emulated): {fused}",
+    ]
+
+
 def _markdown_2d(t, plot):
     from .emit.grid2d import grid_summary
     g = grid_summary(t.gt)
     v = t.gt.verification
-    lines = [f"## `{t.spec.function}`: {_md(g['quantity'])} from pressure and {_md(g['second'])}",
-             ""]
-    if t.spec.description:
-        lines += [_md(t.spec.description), ""]
-    lines += [
-        f"- domain: {_md(g['domain'])}",
-        f"- output: {_md(g['quantity'])} in {_md(g['output_unit'])}, {t.gt.grid.fmt}",
-        f"- tolerance: {_md(g['tolerance'])}",
-        f"- verified: {_md(g['verified'])}",
-        f"- with fused multiply-add (emulated): {_md(g['fused']) if g['fused'] else 'not modelled for this format'}",
+    lines = _two_input_head(t, g, "", t.gt.grid.fmt) + [
         f"- method: {_md(g['method'])}; second coordinate: {_md(g['coordinate'])}",
         f"- storage: {_md(g['storage'])}",
         f"- outside the range: {_md(g['policy'])}; {_md(g['wrong_side'])}",
@@ -333,16 +340,17 @@ def _budget_lines_2d(t, unit):
     b = t.budget
     if b is None:
         return []
-    k, u = (100.0, "%") if b["kind"] == "rel" else (1.0, "" if unit == "1" else unit)
-    each = ", ".join(f"{_md(n.replace('_', ' '))} up to {v * k:.3g} {_md(u)}"
+    k, u = (100.0, " %") if b["kind"] == "rel" else (1.0, "" if unit in ("1", "") else f" {unit}")
+    u = _md(u)
+    each = ", ".join(f"{_md(n.replace('_', ' '))} up to {v * k:.3g}{u}"
                      for n, v in b["from_each_input_max"].items())
     verdict = ("FLAGGED: the table's error is not small against the sensors'" if b["flag"]
                else "the table's error is small against the sensors'")
     at = b["ratio_max_at"]
     return [
         f"- sensors: {_md(b['sensor'])}; together they cause an output uncertainty of "
-        f"{b['output_uncertainty_min'] * k:.3g} to {b['output_uncertainty_max'] * k:.3g} "
-        f"{_md(u)} over {b['points']} points of the domain ({each}; "
+        f"{b['output_uncertainty_min'] * k:.3g} to {b['output_uncertainty_max'] * k:.3g}"
+        f"{u} over {b['points']} points of the domain ({each}; "
         f"{_md(b['combination'])})",
         f"- table error / sensor-caused uncertainty: at most {b['ratio_max']:.3g} (at "
         f"{at[0]:.6g}, {at[1]:.6g}); {verdict} (rule: {_md(b['rule'])})",
@@ -353,16 +361,7 @@ def _markdown_wet(t, plot):
     from .emit.wet import wet_summary
     g = wet_summary(t)
     v = t.verification
-    lines = [f"## `{t.spec.function}`: {_md(g['quantity'])} of wet steam from pressure and "
-             f"{_md(g['second'])}", ""]
-    if t.spec.description:
-        lines += [_md(t.spec.description), ""]
-    lines += [
-        f"- domain: {_md(g['domain'])}",
-        f"- output: {_md(g['quantity'])} in {_md(g['output_unit'])}, {t.fmt}",
-        f"- tolerance: {_md(g['tolerance'])}",
-        f"- verified: {_md(g['verified'])}",
-        f"- with fused multiply-add (emulated): {_md(g['fused']) if g['fused'] else 'not modelled for this format'}",
+    lines = _two_input_head(t, g, " of wet steam", t.fmt) + [
         f"- method: {_md(g['method'])}",
         f"- storage: {_md(g['storage'])}",
         f"- outside: {_md(g['policy'])}",
