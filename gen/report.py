@@ -340,8 +340,8 @@ def _budget_lines_2d(t, unit):
     b = t.budget
     if b is None:
         return []
-    k, u = (100.0, " %") if b["kind"] == "rel" else (1.0, "" if unit in ("1", "") else f" {unit}")
-    u = _md(u)
+    k, u = (100.0, "%") if b["kind"] == "rel" else (1.0, "" if unit in ("1", "") else unit)
+    u = f" {_md(u)}" if u else ""
     each = ", ".join(f"{_md(n.replace('_', ' '))} up to {v * k:.3g}{u}"
                      for n, v in b["from_each_input_max"].items())
     verdict = ("FLAGGED: the table's error is not small against the sensors'" if b["flag"]
