@@ -10,6 +10,7 @@ from importlib import resources
 from pathlib import Path
 
 import click
+import numpy as np
 
 from . import __version__
 
@@ -162,23 +163,37 @@ _SAT = ["saturated_liquid_density", "saturated_vapor_density", "saturated_liquid
 @main.command()
 @click.option("--pressure", "-p", help='Pressure with unit, e.g. "10 bar" (a bare number is Pa).')
 @click.option("--temperature", "-t", help='Temperature with unit, e.g. "180 degC" (bare: K).')
+@click.option("--enthalpy", help='Specific enthalpy with unit, e.g. "2000 kJ/kg" (bare: J/kg); '
+              'with --pressure.')
+@click.option("--entropy", help='Specific entropy with unit, e.g. "6 kJ/(kg*K)" (bare: '
+              'J/(kg K)); with --pressure.')
 @click.option("--phase", type=click.Choice(["liquid", "vapor"]),
               help="Side of the saturation line for a point exactly on it.")
 @click.option("--units", "system", type=click.Choice(["engineering", "si"]), default="engineering",
               show_default=True, help="Units of the printed values.")
-def state(pressure, temperature, phase, system):
+def state(pressure, temperature, enthalpy, entropy, phase, system):
     """Print every IF97 property at one state, for spot checks.
 
     Both --pressure and --temperature: the single-phase state. Only one of them: the
-    saturation state at that pressure or temperature.
+    saturation state at that pressure or temperature. --pressure with --enthalpy or --entropy:
+    wet steam (quality and mixture properties) inside the two-phase dome, else the
+    single-phase state at the temperature they give.
     """
     from . import quantities as Q
     from . import units as U
     if pressure is None and temperature is None:
         raise InputError("give --pressure, --temperature or both")
+    if (enthalpy is not None or entropy is not None) and (
+            pressure is None or temperature is not None or None not in (enthalpy, entropy)):
+        raise InputError("--enthalpy or --entropy goes with --pressure alone (one of the two)")
     try:
         p = U.parse_quantity(pressure, "pressure") if pressure is not None else None
         T = U.parse_quantity(temperature, "temperature") if temperature is not None else None
+        second = None
+        if enthalpy is not None:
+            second = ("specific_enthalpy", U.parse_quantity(enthalpy, "specific_energy"), enthalpy)
+        elif entropy is not None:
+            second = ("specific_entropy", U.parse_quantity(entropy, "specific_entropy"), entropy)
     except U.UnitError as e:
         raise InputError(str(e)) from None
     units = _STATE_UNITS[system]
@@ -191,7 +206,28 @@ def state(pressure, temperature, phase, system):
         rows.append((Q.CATALOGUE[qid].text, f"{v:.10g}", unit))
 
     try:
-        if p is not None and T is not None:
+        if second is not None:
+            from .if97 import core
+            name, a, text = second
+            x = float(Q.evaluate("quality", mask=True, pressure=p, **{name: a}))
+            if np.isfinite(x):
+                m = core.mixture_p(p, x)
+                head = f"wet steam at p = {pressure}, {name.replace('_', ' ')} = {text}"
+                show("quality", x)
+                show("saturation_temperature", Q.evaluate("saturation_temperature", pressure=p))
+                for qid, key in (("density", "rho"), ("specific_volume", "v"),
+                                 ("specific_enthalpy", "h"), ("specific_internal_energy", "u"),
+                                 ("specific_entropy", "s")):
+                    show(qid, m[key])
+            else:
+                T = float(Q.evaluate("temperature", pressure=p, **{name: a}))
+                region = int(core.props_pT(p, T)["region"])
+                head = (f"state at p = {pressure}, {name.replace('_', ' ')} = {text}: not wet "
+                        f"steam, IF97 region {region}")
+                show("temperature", T)
+                for qid in _SINGLE:
+                    show(qid, Q.evaluate(qid, pressure=p, temperature=T))
+        elif p is not None and T is not None:
             from .if97 import core
             props = core.props_pT(p, T, phase=phase, transport=True)
             region = int(props["region"])

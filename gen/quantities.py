@@ -85,7 +85,7 @@ CATALOGUE = {q.id: q for q in [
              "temperature (backward)", "backward"),
     Quantity("quality", "dimensionless",
              (("pressure", "specific_enthalpy"), ("pressure", "specific_entropy")),
-             "vapour mass fraction of wet steam (0 saturated liquid, 1 saturated vapour)", "wet"),
+             "quality (vapour mass fraction, 0 to 1)", "wet"),
 ]}
 
 #: input kind of each input name

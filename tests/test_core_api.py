@@ -432,3 +432,39 @@ def test_cli_state_outside_validity():
 def test_cli_state_error_names_the_value_and_the_limit():
     r = CliRunner().invoke(main, ["state", "--pressure", "2000 bar", "--temperature", "180 degC"])
     assert "200 MPa" in r.output and "100 MPa" in r.output
+
+
+def _row(output, name):
+    """The value printed on the row whose name starts with ``name`` (columns are set apart
+    by two or more spaces)."""
+    line = next(s for s in output.splitlines() if s.strip().startswith(name))
+    return float(re.split(r"\s{2,}", line.strip())[1])
+
+
+def test_cli_state_wet_steam_from_enthalpy_and_entropy():
+    # reference: the `iapws` package (PyPI), IAPWS97(P=1 MPa, h=2000 kJ/kg): x = 0.6142249,
+    # rho = 8.346634 kg/m^3 (computed with iapws 1.5.5)
+    r = CliRunner().invoke(main, ["state", "-p", "10 bar", "--enthalpy", "2000 kJ/kg"])
+    assert r.exit_code == 0, r.output
+    assert r.output.startswith("wet steam at p = 10 bar")
+    assert _row(r.output, "quality") == pytest.approx(0.6142249, abs=2e-7)
+    assert _row(r.output, "density") == pytest.approx(8.346634, rel=1e-6)
+    s = evaluate("saturated_liquid_entropy", pressure=1 * MPA) * 0.5 + evaluate(
+        "saturated_vapor_entropy", pressure=1 * MPA) * 0.5
+    r = CliRunner().invoke(main, ["state", "-p", "10 bar", "--entropy", f"{s} J/(kg*K)"])
+    assert r.exit_code == 0 and _row(r.output, "quality") == pytest.approx(0.5, abs=1e-9)
+
+
+def test_cli_state_from_enthalpy_outside_the_dome_is_single_phase():
+    r = CliRunner().invoke(main, ["state", "-p", "10 bar", "--enthalpy", "3000 kJ/kg"])
+    assert r.exit_code == 0, r.output
+    assert "not wet steam, IF97 region 2" in r.output
+    T = evaluate("temperature", pressure=1 * MPA, specific_enthalpy=3000 * KJ)
+    assert _row(r.output, "temperature") == pytest.approx(T - 273.15, abs=1e-6)
+
+
+@pytest.mark.parametrize("args", [["-t", "100 degC", "--enthalpy", "2000 kJ/kg"],
+                                  ["-p", "1 bar", "--enthalpy", "1 kJ/kg", "--entropy", "1"]])
+def test_cli_state_enthalpy_needs_pressure_alone(args):
+    r = CliRunner().invoke(main, ["state", *args])
+    assert r.exit_code == 2 and "goes with --pressure alone" in r.output
