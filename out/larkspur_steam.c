@@ -20,9 +20,12 @@
  * u = (x - x0) * inv_h; i = (int)u (at most 2); t = u - i; y = (((c[0]*t + c[1])*t + c[2])*t + c[3])*t + c[4].
  */
 static const float lvc__autoclave_tsat_c[3][5] = {
-    { -0x1.45b078p+1f, 0x1.3043e2p+3f, -0x1.25215ep+4f, 0x1.25c614p+5f, 0x1.8fe5aep+6f }, /* segment 0: from 0 bar */
-    { -0x1.ec7ac8p-3f, 0x1.3df924p+0f, -0x1.0d3792p+2f, 0x1.27eecep+4f, 0x1.f55b5ap+6f }, /* segment 1: from 1.3333333 bar */
-    { -0x1.d66674p-5f, 0x1.83605cp-2f, -0x1.dd9406p+0f, 0x1.9b378ep+3f, 0x1.19429ep+7f }, /* segment 2: from 2.6666667 bar */
+    /* segment 0: from 0 bar: -2.544448, 9.508286, -18.320646, 36.721718, 99.9743 */
+    { -0x1.45b078p+1f, 0x1.3043e2p+3f, -0x1.25215ep+4f, 0x1.25c614p+5f, 0x1.8fe5aep+6f },
+    /* segment 1: from 1.3333333 bar: -0.24046856, 1.2420828, -4.2065167, 18.495802, 125.33921 */
+    { -0x1.ec7ac8p-3f, 0x1.3df924p+0f, -0x1.0d3792p+2f, 0x1.27eecep+4f, 0x1.f55b5ap+6f },
+    /* segment 2: from 2.6666667 bar: -0.0574219, 0.37829727, -1.8655399, 12.850532, 140.63011 */
+    { -0x1.d66674p-5f, 0x1.83605cp-2f, -0x1.dd9406p+0f, 0x1.9b378ep+3f, 0x1.19429ep+7f },
 };
 
 float lvc_autoclave_tsat(float x)
@@ -78,86 +81,166 @@ int32_t lvc_autoclave_tsat_status(float x, float *y)
  * rebuilt from the key's bits, so t = (x - x[i]) * 2^-e is exact; y = c[0]*t + c[1].
  */
 static const float lvc__boiler_tsat_c[80][2] = {
-    { 0x1.8477cap+0f, 0x1.4556cp+6f }, /* segment 0: from 0.5 bar */
-    { 0x1.71c53ap+0f, 0x1.4b68ap+6f }, /* segment 1: from 0.53125 bar */
-    { 0x1.60f4f8p+0f, 0x1.512fb4p+6f }, /* segment 2: from 0.5625 bar */
-    { 0x1.51bfeap+0f, 0x1.56b388p+6f }, /* segment 3: from 0.59375 bar */
-    { 0x1.43ec6cp+0f, 0x1.5bfa88p+6f }, /* segment 4: from 0.625 bar */
-    { 0x1.374b44p+0f, 0x1.610a3ap+6f }, /* segment 5: from 0.65625 bar */
-    { 0x1.2bb55cp+0f, 0x1.65e766p+6f }, /* segment 6: from 0.6875 bar */
-    { 0x1.210a0ep+0f, 0x1.6a963cp+6f }, /* segment 7: from 0.71875 bar */
-    { 0x1.172de2p+0f, 0x1.6f1a64p+6f }, /* segment 8: from 0.75 bar */
-    { 0x1.0e099p+0f, 0x1.73771cp+6f }, /* segment 9: from 0.78125 bar */
-    { 0x1.05892ep+0f, 0x1.77af42p+6f }, /* segment 10: from 0.8125 bar */
-    { 0x1.fb3756p-1f, 0x1.7bc566p+6f }, /* segment 11: from 0.84375 bar */
-    { 0x1.ec648p-1f, 0x1.7fbbd6p+6f }, /* segment 12: from 0.875 bar */
-    { 0x1.de8034p-1f, 0x1.83949ep+6f }, /* segment 13: from 0.90625 bar */
-    { 0x1.d1740cp-1f, 0x1.87519ep+6f }, /* segment 14: from 0.9375 bar */
-    { 0x1.c52c64p-1f, 0x1.8af486p+6f }, /* segment 15: from 0.96875 bar */
-    { 0x1.b41f9ep+0f, 0x1.8e7eep+6f }, /* segment 16: from 1 bar */
-    { 0x1.9f64f2p+0f, 0x1.954f5ep+6f }, /* segment 17: from 1.0625 bar */
-    { 0x1.8cbe86p+0f, 0x1.9bccf2p+6f }, /* segment 18: from 1.125 bar */
-    { 0x1.7bde18p+0f, 0x1.a1ffecp+6f }, /* segment 19: from 1.1875 bar */
-    { 0x1.6c8432p+0f, 0x1.a7ef64p+6f }, /* segment 20: from 1.25 bar */
-    { 0x1.5e7ccep+0f, 0x1.ada176p+6f }, /* segment 21: from 1.3125 bar */
-    { 0x1.519cd8p+0f, 0x1.b31b68p+6f }, /* segment 22: from 1.375 bar */
-    { 0x1.45c056p+0f, 0x1.b861dcp+6f }, /* segment 23: from 1.4375 bar */
-    { 0x1.3ac87cp+0f, 0x1.bd78dep+6f }, /* segment 24: from 1.5 bar */
-    { 0x1.309d16p+0f, 0x1.c264p+6f }, /* segment 25: from 1.5625 bar */
-    { 0x1.2726b4p+0f, 0x1.c72676p+6f }, /* segment 26: from 1.625 bar */
-    { 0x1.1e52f8p+0f, 0x1.cbc31p+6f }, /* segment 27: from 1.6875 bar */
-    { 0x1.161192p+0f, 0x1.d03c5cp+6f }, /* segment 28: from 1.75 bar */
-    { 0x1.0e545ap+0f, 0x1.d494a2p+6f }, /* segment 29: from 1.8125 bar */
-    { 0x1.070eeep+0f, 0x1.d8cdf4p+6f }, /* segment 30: from 1.875 bar */
-    { 0x1.003672p+0f, 0x1.dcea3p+6f }, /* segment 31: from 1.9375 bar */
-    { 0x1.ed687ep+0f, 0x1.e0eb0ap+6f }, /* segment 32: from 2 bar */
-    { 0x1.d6469cp+0f, 0x1.e8a0acp+6f }, /* segment 33: from 2.125 bar */
-    { 0x1.c173a6p+0f, 0x1.eff9c6p+6f }, /* segment 34: from 2.25 bar */
-    { 0x1.ae98fap+0f, 0x1.f6ff94p+6f }, /* segment 35: from 2.375 bar */
-    { 0x1.9d7054p+0f, 0x1.fdb9f8p+6f }, /* segment 36: from 2.5 bar */
-    { 0x1.8dc00cp+0f, 0x1.0217dcp+7f }, /* segment 37: from 2.625 bar */
-    { 0x1.7f5866p+0f, 0x1.05335cp+7f }, /* segment 38: from 2.75 bar */
-    { 0x1.72117ap+0f, 0x1.08320ep+7f }, /* segment 39: from 2.875 bar */
-    { 0x1.65c9aep+0f, 0x1.0b163p+7f }, /* segment 40: from 3 bar */
-    { 0x1.5a647cp+0f, 0x1.0de1c4p+7f }, /* segment 41: from 3.125 bar */
-    { 0x1.4fc986p+0f, 0x1.10968cp+7f }, /* segment 42: from 3.25 bar */
-    { 0x1.45e3dap+0f, 0x1.13362p+7f }, /* segment 43: from 3.375 bar */
-    { 0x1.3ca15ap+0f, 0x1.15c1e8p+7f }, /* segment 44: from 3.5 bar */
-    { 0x1.33f248p+0f, 0x1.183b2ap+7f }, /* segment 45: from 3.625 bar */
-    { 0x1.2bc8ep+0f, 0x1.1aa30ep+7f }, /* segment 46: from 3.75 bar */
-    { 0x1.24191p+0f, 0x1.1cfaap+7f }, /* segment 47: from 3.875 bar */
-    { 0x1.196a8ap+1f, 0x1.1f42d2p+7f }, /* segment 48: from 4 bar */
-    { 0x1.0c6a8p+1f, 0x1.23a87cp+7f }, /* segment 49: from 4.25 bar */
-    { 0x1.00b4aep+1f, 0x1.27da26p+7f }, /* segment 50: from 4.5 bar */
-    { 0x1.ec31acp+0f, 0x1.2bdcfap+7f }, /* segment 51: from 4.75 bar */
-    { 0x1.d8df98p+0f, 0x1.2fb55cp+7f }, /* segment 52: from 5 bar */
-    { 0x1.c732dap+0f, 0x1.33671cp+7f }, /* segment 53: from 5.25 bar */
-    { 0x1.b6f62cp+0f, 0x1.36f582p+7f }, /* segment 54: from 5.5 bar */
-    { 0x1.a7fd08p+0f, 0x1.3a636ep+7f }, /* segment 55: from 5.75 bar */
-    { 0x1.9a21e6p+0f, 0x1.3db368p+7f }, /* segment 56: from 6 bar */
-    { 0x1.8d44e8p+0f, 0x1.40e7acp+7f }, /* segment 57: from 6.25 bar */
-    { 0x1.814ad2p+0f, 0x1.440236p+7f }, /* segment 58: from 6.5 bar */
-    { 0x1.761c3ap+0f, 0x1.4704ccp+7f }, /* segment 59: from 6.75 bar */
-    { 0x1.6ba4dep+0f, 0x1.49f104p+7f }, /* segment 60: from 7 bar */
-    { 0x1.61d31cp+0f, 0x1.4cc84ep+7f }, /* segment 61: from 7.25 bar */
-    { 0x1.58979p+0f, 0x1.4f8bf4p+7f }, /* segment 62: from 7.5 bar */
-    { 0x1.4fe3b6p+0f, 0x1.523d24p+7f }, /* segment 63: from 7.75 bar */
-    { 0x1.43ccb4p+1f, 0x1.54dcecp+7f }, /* segment 64: from 8 bar */
-    { 0x1.35127cp+1f, 0x1.59ec2p+7f }, /* segment 65: from 8.5 bar */
-    { 0x1.27cc0cp+1f, 0x1.5ec06ap+7f }, /* segment 66: from 9 bar */
-    { 0x1.1bc33ep+1f, 0x1.635f9ap+7f }, /* segment 67: from 9.5 bar */
-    { 0x1.10cc2p+1f, 0x1.67cea6p+7f }, /* segment 68: from 10 bar */
-    { 0x1.06c29ap+1f, 0x1.6c11d6p+7f }, /* segment 69: from 10.5 bar */
-    { 0x1.fb117ap+0f, 0x1.702ce2p+7f }, /* segment 70: from 11 bar */
-    { 0x1.ea0b04p+0f, 0x1.742304p+7f }, /* segment 71: from 11.5 bar */
-    { 0x1.da479ap+0f, 0x1.77f71ap+7f }, /* segment 72: from 12 bar */
-    { 0x1.cba364p+0f, 0x1.7babaap+7f }, /* segment 73: from 12.5 bar */
-    { 0x1.bdffb8p+0f, 0x1.7f42fp+7f }, /* segment 74: from 13 bar */
-    { 0x1.b14236p+0f, 0x1.82befp+7f }, /* segment 75: from 13.5 bar */
-    { 0x1.a55408p+0f, 0x1.862174p+7f }, /* segment 76: from 14 bar */
-    { 0x1.9a2156p+0f, 0x1.896c1cp+7f }, /* segment 77: from 14.5 bar */
-    { 0x1.8f98bep+0f, 0x1.8ca05ep+7f }, /* segment 78: from 15 bar */
-    { 0x1.85ab04p+0f, 0x1.8fbf9p+7f }, /* segment 79: from 15.5 bar */
+    /* segment 0: from 0.5 bar: 1.5174528, 81.33472 */
+    { 0x1.8477cap+0f, 0x1.4556cp+6f },
+    /* segment 1: from 0.53125 bar: 1.4444157, 82.85217 */
+    { 0x1.71c53ap+0f, 0x1.4b68ap+6f },
+    /* segment 2: from 0.5625 bar: 1.3787379, 84.296585 */
+    { 0x1.60f4f8p+0f, 0x1.512fb4p+6f },
+    /* segment 3: from 0.59375 bar: 1.3193346, 85.67532 */
+    { 0x1.51bfeap+0f, 0x1.56b388p+6f },
+    /* segment 4: from 0.625 bar: 1.2653263, 86.99466 */
+    { 0x1.43ec6cp+0f, 0x1.5bfa88p+6f },
+    /* segment 5: from 0.65625 bar: 1.2159922, 88.25999 */
+    { 0x1.374b44p+0f, 0x1.610a3ap+6f },
+    /* segment 6: from 0.6875 bar: 1.1707361, 89.475975 */
+    { 0x1.2bb55cp+0f, 0x1.65e766p+6f },
+    /* segment 7: from 0.71875 bar: 1.1290597, 90.64671 */
+    { 0x1.210a0ep+0f, 0x1.6a963cp+6f },
+    /* segment 8: from 0.75 bar: 1.0905439, 91.77577 */
+    { 0x1.172de2p+0f, 0x1.6f1a64p+6f },
+    /* segment 9: from 0.78125 bar: 1.0548334, 92.86632 */
+    { 0x1.0e099p+0f, 0x1.73771cp+6f },
+    /* segment 10: from 0.8125 bar: 1.0216244, 93.92115 */
+    { 0x1.05892ep+0f, 0x1.77af42p+6f },
+    /* segment 11: from 0.84375 bar: 0.99065655, 94.94277 */
+    { 0x1.fb3756p-1f, 0x1.7bc566p+6f },
+    /* segment 12: from 0.875 bar: 0.96170425, 95.93343 */
+    { 0x1.ec648p-1f, 0x1.7fbbd6p+6f },
+    /* segment 13: from 0.90625 bar: 0.93457186, 96.895134 */
+    { 0x1.de8034p-1f, 0x1.83949ep+6f },
+    /* segment 14: from 0.9375 bar: 0.9090885, 97.829704 */
+    { 0x1.d1740cp-1f, 0x1.87519ep+6f },
+    /* segment 15: from 0.96875 bar: 0.8851043, 98.73879 */
+    { 0x1.c52c64p-1f, 0x1.8af486p+6f },
+    /* segment 16: from 1 bar: 1.7036074, 99.6239 */
+    { 0x1.b41f9ep+0f, 0x1.8e7eep+6f },
+    /* segment 17: from 1.0625 bar: 1.622634, 101.32751 */
+    { 0x1.9f64f2p+0f, 0x1.954f5ep+6f },
+    /* segment 18: from 1.125 bar: 1.5497822, 102.95014 */
+    { 0x1.8cbe86p+0f, 0x1.9bccf2p+6f },
+    /* segment 19: from 1.1875 bar: 1.4838576, 104.49992 */
+    { 0x1.7bde18p+0f, 0x1.a1ffecp+6f },
+    /* segment 20: from 1.25 bar: 1.4238921, 105.98378 */
+    { 0x1.6c8432p+0f, 0x1.a7ef64p+6f },
+    /* segment 21: from 1.3125 bar: 1.3690919, 107.40768 */
+    { 0x1.5e7ccep+0f, 0x1.ada176p+6f },
+    /* segment 22: from 1.375 bar: 1.3187995, 108.776764 */
+    { 0x1.519cd8p+0f, 0x1.b31b68p+6f },
+    /* segment 23: from 1.4375 bar: 1.2724661, 110.095566 */
+    { 0x1.45c056p+0f, 0x1.b861dcp+6f },
+    /* segment 24: from 1.5 bar: 1.2296216, 111.368034 */
+    { 0x1.3ac87cp+0f, 0x1.bd78dep+6f },
+    /* segment 25: from 1.5625 bar: 1.189897, 112.59766 */
+    { 0x1.309d16p+0f, 0x1.c264p+6f },
+    /* segment 26: from 1.625 bar: 1.1529343, 113.78756 */
+    { 0x1.2726b4p+0f, 0x1.c72676p+6f },
+    /* segment 27: from 1.6875 bar: 1.1184535, 114.94049 */
+    { 0x1.1e52f8p+0f, 0x1.cbc31p+6f },
+    /* segment 28: from 1.75 bar: 1.0862056, 116.058945 */
+    { 0x1.161192p+0f, 0x1.d03c5cp+6f },
+    /* segment 29: from 1.8125 bar: 1.0559746, 117.14515 */
+    { 0x1.0e545ap+0f, 0x1.d494a2p+6f },
+    /* segment 30: from 1.875 bar: 1.0275716, 118.201126 */
+    { 0x1.070eeep+0f, 0x1.d8cdf4p+6f },
+    /* segment 31: from 1.9375 bar: 1.0008308, 119.2287 */
+    { 0x1.003672p+0f, 0x1.dcea3p+6f },
+    /* segment 32: from 2 bar: 1.9273757, 120.22953 */
+    { 0x1.ed687ep+0f, 0x1.e0eb0ap+6f },
+    /* segment 33: from 2.125 bar: 1.8370149, 122.156906 */
+    { 0x1.d6469cp+0f, 0x1.e8a0acp+6f },
+    /* segment 34: from 2.25 bar: 1.7556709, 123.99392 */
+    { 0x1.c173a6p+0f, 0x1.eff9c6p+6f },
+    /* segment 35: from 2.375 bar: 1.6820217, 125.74959 */
+    { 0x1.ae98fap+0f, 0x1.f6ff94p+6f },
+    /* segment 36: from 2.5 bar: 1.6149952, 127.43161 */
+    { 0x1.9d7054p+0f, 0x1.fdb9f8p+6f },
+    /* segment 37: from 2.625 bar: 1.5537117, 129.0466 */
+    { 0x1.8dc00cp+0f, 0x1.0217dcp+7f },
+    /* segment 38: from 2.75 bar: 1.4974426, 130.60031 */
+    { 0x1.7f5866p+0f, 0x1.05335cp+7f },
+    /* segment 39: from 2.875 bar: 1.4455792, 132.09776 */
+    { 0x1.72117ap+0f, 0x1.08320ep+7f },
+    /* segment 40: from 3 bar: 1.3976086, 133.54333 */
+    { 0x1.65c9aep+0f, 0x1.0b163p+7f },
+    /* segment 41: from 3.125 bar: 1.3530958, 134.94095 */
+    { 0x1.5a647cp+0f, 0x1.0de1c4p+7f },
+    /* segment 42: from 3.25 bar: 1.3116688, 136.29404 */
+    { 0x1.4fc986p+0f, 0x1.10968cp+7f },
+    /* segment 43: from 3.375 bar: 1.273008, 137.60571 */
+    { 0x1.45e3dap+0f, 0x1.13362p+7f },
+    /* segment 44: from 3.5 bar: 1.236837, 138.87872 */
+    { 0x1.3ca15ap+0f, 0x1.15c1e8p+7f },
+    /* segment 45: from 3.625 bar: 1.2029157, 140.11555 */
+    { 0x1.33f248p+0f, 0x1.183b2ap+7f },
+    /* segment 46: from 3.75 bar: 1.1710339, 141.31847 */
+    { 0x1.2bc8ep+0f, 0x1.1aa30ep+7f },
+    /* segment 47: from 3.875 bar: 1.1410074, 142.4895 */
+    { 0x1.24191p+0f, 0x1.1cfaap+7f },
+    /* segment 48: from 4 bar: 2.1985638, 143.63051 */
+    { 0x1.196a8ap+1f, 0x1.1f42d2p+7f },
+    /* segment 49: from 4.25 bar: 2.0970001, 145.82907 */
+    { 0x1.0c6a8p+1f, 0x1.23a87cp+7f },
+    /* segment 50: from 4.5 bar: 2.005514, 147.92607 */
+    { 0x1.00b4aep+1f, 0x1.27da26p+7f },
+    /* segment 51: from 4.75 bar: 1.9226329, 149.9316 */
+    { 0x1.ec31acp+0f, 0x1.2bdcfap+7f },
+    /* segment 52: from 5 bar: 1.8471618, 151.85422 */
+    { 0x1.d8df98p+0f, 0x1.2fb55cp+7f },
+    /* segment 53: from 5.25 bar: 1.7781197, 153.70139 */
+    { 0x1.c732dap+0f, 0x1.33671cp+7f },
+    /* segment 54: from 5.5 bar: 1.7146938, 155.4795 */
+    { 0x1.b6f62cp+0f, 0x1.36f582p+7f },
+    /* segment 55: from 5.75 bar: 1.6562047, 157.1942 */
+    { 0x1.a7fd08p+0f, 0x1.3a636ep+7f },
+    /* segment 56: from 6 bar: 1.6020797, 158.8504 */
+    { 0x1.9a21e6p+0f, 0x1.3db368p+7f },
+    /* segment 57: from 6.25 bar: 1.5518327, 160.45248 */
+    { 0x1.8d44e8p+0f, 0x1.40e7acp+7f },
+    /* segment 58: from 6.5 bar: 1.5050479, 162.00432 */
+    { 0x1.814ad2p+0f, 0x1.440236p+7f },
+    /* segment 59: from 6.75 bar: 1.4613682, 163.50937 */
+    { 0x1.761c3ap+0f, 0x1.4704ccp+7f },
+    /* segment 60: from 7 bar: 1.4204844, 164.97073 */
+    { 0x1.6ba4dep+0f, 0x1.49f104p+7f },
+    /* segment 61: from 7.25 bar: 1.3821275, 166.39122 */
+    { 0x1.61d31cp+0f, 0x1.4cc84ep+7f },
+    /* segment 62: from 7.5 bar: 1.3460627, 167.77335 */
+    { 0x1.58979p+0f, 0x1.4f8bf4p+7f },
+    /* segment 63: from 7.75 bar: 1.3120683, 169.11942 */
+    { 0x1.4fe3b6p+0f, 0x1.523d24p+7f },
+    /* segment 64: from 8 bar: 2.5296845, 170.43149 */
+    { 0x1.43ccb4p+1f, 0x1.54dcecp+7f },
+    /* segment 65: from 8.5 bar: 2.4146266, 172.96118 */
+    { 0x1.35127cp+1f, 0x1.59ec2p+7f },
+    /* segment 66: from 9 bar: 2.3109145, 175.37581 */
+    { 0x1.27cc0cp+1f, 0x1.5ec06ap+7f },
+    /* segment 67: from 9.5 bar: 2.2168958, 177.68672 */
+    { 0x1.1bc33ep+1f, 0x1.635f9ap+7f },
+    /* segment 68: from 10 bar: 2.1312294, 179.90361 */
+    { 0x1.10cc2p+1f, 0x1.67cea6p+7f },
+    /* segment 69: from 10.5 bar: 2.0528138, 182.03484 */
+    { 0x1.06c29ap+1f, 0x1.6c11d6p+7f },
+    /* segment 70: from 11 bar: 1.9807354, 184.08766 */
+    { 0x1.fb117ap+0f, 0x1.702ce2p+7f },
+    /* segment 71: from 11.5 bar: 1.9142306, 186.06839 */
+    { 0x1.ea0b04p+0f, 0x1.742304p+7f },
+    /* segment 72: from 12 bar: 1.852655, 187.98262 */
+    { 0x1.da479ap+0f, 0x1.77f71ap+7f },
+    /* segment 73: from 12.5 bar: 1.7954619, 189.83528 */
+    { 0x1.cba364p+0f, 0x1.7babaap+7f },
+    /* segment 74: from 13 bar: 1.7421832, 191.63074 */
+    { 0x1.bdffb8p+0f, 0x1.7f42fp+7f },
+    /* segment 75: from 13.5 bar: 1.6924165, 193.37292 */
+    { 0x1.b14236p+0f, 0x1.82befp+7f },
+    /* segment 76: from 14 bar: 1.6458135, 195.06534 */
+    { 0x1.a55408p+0f, 0x1.862174p+7f },
+    /* segment 77: from 14.5 bar: 1.6020712, 196.71115 */
+    { 0x1.9a2156p+0f, 0x1.896c1cp+7f },
+    /* segment 78: from 15 bar: 1.5609244, 198.31322 */
+    { 0x1.8f98bep+0f, 0x1.8ca05ep+7f },
+    /* segment 79: from 15.5 bar: 1.5221407, 199.87415 */
+    { 0x1.85ab04p+0f, 0x1.8fbf9p+7f },
 };
 
 float lvc_boiler_tsat(float x)
@@ -214,8 +297,10 @@ int32_t lvc_boiler_tsat_status(float x, float *y)
  * u = (x - x0) * inv_h; i = (int)u (at most 1); t = u - i; y = ((c[0]*t + c[1])*t + c[2])*t + c[3].
  */
 static const float lvc__steam_density_c[2][4] = {
-    { 0x1.64cf84p-5f, -0x1.2051e4p-3f, 0x1.5133c6p+1f, 0x1.210686p+0f }, /* segment 0: from 2 bar */
-    { 0x1.0cdbbcp-7f, -0x1.cca31cp-6f, 0x1.3d5a38p+1f, 0x1.d54528p+1f }, /* segment 1: from 6.9999999 bar */
+    /* segment 0: from 2 bar: 0.043555982, -0.1407812, 2.6343925, 1.1290058 */
+    { 0x1.64cf84p-5f, -0x1.2051e4p-3f, 0x1.5133c6p+1f, 0x1.210686p+0f },
+    /* segment 1: from 6.9999999 bar: 0.008204905, -0.02811506, 2.4793158, 3.666173 */
+    { 0x1.0cdbbcp-7f, -0x1.cca31cp-6f, 0x1.3d5a38p+1f, 0x1.d54528p+1f },
 };
 
 float lvc_steam_density(float x)
@@ -270,9 +355,12 @@ int32_t lvc_steam_density_status(float x, float *y)
  * rebuilt from the key's bits, so t = (x - x[i]) * 2^-e is exact; y = ((c[0]*t + c[1])*t + c[2])*t + c[3].
  */
 static const float lvc__steam_latent_c[3][4] = {
-    { -0x1.a47e5p+2f, 0x1.a16166p+4f, -0x1.5ef63p+6f, 0x1.1331d8p+11f }, /* segment 0: from 2 bar */
-    { -0x1.e3211cp+2f, 0x1.e3ab8cp+4f, -0x1.b2ea84p+6f, 0x1.0aaaaap+11f }, /* segment 1: from 4 bar */
-    { -0x1.bebc56p+3f, 0x1.4057cep+5f, -0x1.191ec4p+7f, 0x1.ffd238p+10f }, /* segment 2: from 8 bar */
+    /* segment 0: from 2 bar: -6.5702095, 26.086279, -87.74042, 2201.5576 */
+    { -0x1.a47e5p+2f, 0x1.a16166p+4f, -0x1.5ef63p+6f, 0x1.1331d8p+11f },
+    /* segment 1: from 4 bar: -7.548896, 30.229382, -108.72902, 2133.3333 */
+    { -0x1.e3211cp+2f, 0x1.e3ab8cp+4f, -0x1.b2ea84p+6f, 0x1.0aaaaap+11f },
+    /* segment 2: from 8 bar: -13.96049, 40.042873, -140.56009, 2047.2847 */
+    { -0x1.bebc56p+3f, 0x1.4057cep+5f, -0x1.191ec4p+7f, 0x1.ffd238p+10f },
 };
 
 float lvc_steam_latent(float x)
@@ -331,7 +419,8 @@ int32_t lvc_steam_latent_status(float x, float *y)
  * u = (x - x0) * inv_h; i = (int)u (at most 0); t = u - i; y = (((c[0]*t + c[1])*t + c[2])*t + c[3])*t + c[4].
  */
 static const float lvc__condensate_h_c[1][5] = {
-    { 0x1.fb777ap+1f, 0x1.d815d6p+2f, 0x1.000ba2p+1f, 0x1.395782p+9f, 0x1.4f1504p+7f }, /* segment 0: from 40 degC */
+    /* segment 0: from 40 degC: 3.9645836, 7.3763328, 2.000355, 626.68365, 167.54105 */
+    { 0x1.fb777ap+1f, 0x1.d815d6p+2f, 0x1.000ba2p+1f, 0x1.395782p+9f, 0x1.4f1504p+7f },
 };
 
 float lvc_condensate_h(float x)
@@ -386,7 +475,8 @@ int32_t lvc_condensate_h_status(float x, float *y)
  * u = (x - x0) * inv_h; i = (int)u (at most 0); t = u - i; y = ((((c[0]*t + c[1])*t + c[2])*t + c[3])*t + c[4])*t + c[5].
  */
 static const float lvc__cooler_psat_c[1][6] = {
-    { 0x1.2b9622p+4f, 0x1.063432p+5f, 0x1.d17ff8p+5f, 0x1.ab616ep+5f, 0x1.d49d7ap+4f, 0x1.c3d50ep+2f }, /* segment 0: from 2 degC */
+    /* segment 0: from 2 degC: 18.724154, 32.775486, 58.187485, 53.422573, 29.288446, 7.059879 */
+    { 0x1.2b9622p+4f, 0x1.063432p+5f, 0x1.d17ff8p+5f, 0x1.ab616ep+5f, 0x1.d49d7ap+4f, 0x1.c3d50ep+2f },
 };
 
 float lvc_cooler_psat(float x)

@@ -22,9 +22,12 @@
  * rebuilt from the key's bits, so t = (x - x[i]) * 2^-e is exact; y = ((c[0]*t + c[1])*t + c[2])*t + c[3].
  */
 static const float lvg__main_steam_density_sat_c[3][4] = {
-    { 0x1.59f4p+1f, -0x1.52d2e4p+3f, 0x1.f49564p+4f, 0x1.e0d8ap+6f }, /* segment 0: from 2 bar */
-    { 0x1.83ba4ap+1f, -0x1.7d2b7ap+3f, 0x1.1d77a2p+5f, 0x1.1f399ep+7f }, /* segment 1: from 4 bar */
-    { 0x1.b5d34p+1f, -0x1.b03b2ap+3f, 0x1.48697ep+5f, 0x1.54d3b8p+7f }, /* segment 2: from 8 bar */
+    /* segment 0: from 2 bar: 2.7027588, -10.5882435, 31.286472, 120.21155 */
+    { 0x1.59f4p+1f, -0x1.52d2e4p+3f, 0x1.f49564p+4f, 0x1.e0d8ap+6f },
+    /* segment 1: from 4 bar: 3.0291226, -11.911557, 35.683414, 143.61253 */
+    { 0x1.83ba4ap+1f, -0x1.7d2b7ap+3f, 0x1.1d77a2p+5f, 0x1.1f399ep+7f },
+    /* segment 2: from 8 bar: 3.4205093, -13.507222, 41.05151, 170.41351 */
+    { 0x1.b5d34p+1f, -0x1.b03b2ap+3f, 0x1.48697ep+5f, 0x1.54d3b8p+7f },
 };
 
 static inline float lvg__main_steam_density_sat(float x)
@@ -75,24 +78,31 @@ static inline float lvg__main_steam_density_sat(float x)
  */
 static const float lvg__main_steam_density_z[7][4] = {
     { /* p = 2 bar */
+        /* 1.113103, 0.96062243, 0.8478618, 0.75974506 */
         0x1.1cf452p+0f, 0x1.ebd6b4p-1f, 0x1.b21af2p-1f, 0x1.84fd4ep-1f,
     },
     { /* p = 4.3333335 bar */
+        /* 2.2985284, 2.0264583, 1.8204446, 1.6556084 */
         0x1.26362ep+1f, 0x1.0362fcp+1f, 0x1.d208a8p+0f, 0x1.a7d5f4p+0f,
     },
     { /* p = 6.6666665 bar */
+        /* 3.449663, 3.077575, 2.7926927, 2.5620775 */
         0x1.b98e8ep+1f, 0x1.89edfap+1f, 0x1.6576f4p+1f, 0x1.47f228p+1f,
     },
     { /* p = 9 bar */
+        /* 4.5842648, 4.1239843, 3.7690394, 3.4795785 */
         0x1.256498p+2f, 0x1.07ef5cp+2f, 0x1.e26fe2p+1f, 0x1.bd62d4p+1f,
     },
     { /* p = 11.333333 bar */
+        /* 5.7100706, 5.170304, 4.7517366, 4.4085646 */
         0x1.6d71ccp+2f, 0x1.4ae642p+2f, 0x1.301c74p+2f, 0x1.1a25ecp+2f,
     },
     { /* p = 13.666667 bar */
+        /* 6.8314314, 6.2192698, 5.7422667, 5.349519 */
         0x1.b5362cp+2f, 0x1.8e0884p+2f, 0x1.6f814cp+2f, 0x1.565e84p+2f,
     },
     { /* p = 16 bar */
+        /* 7.951146, 7.272745, 6.7417526, 6.3029556 */
         0x1.fcdf94p+2f, 0x1.d174a8p+2f, 0x1.af78ep+2f, 0x1.9363ap+2f,
     },
 };
@@ -238,10 +248,14 @@ int32_t lvg_main_steam_density_status(float p, float v, float *y)
  * rebuilt from the key's bits, so t = (x - x[i]) * 2^-e is exact; y = (((c[0]*t + c[1])*t + c[2])*t + c[3])*t + c[4].
  */
 static const float lvg__feedwater_density_sat_c[4][5] = {
-    { -0x1.511f5cp+0f, 0x1.58510ep+2f, -0x1.86ff28p+3f, 0x1.f8e7b8p+4f, 0x1.e0d8ap+6f }, /* segment 0: from 2 bar */
-    { -0x1.78702cp+0f, 0x1.812d82p+2f, -0x1.b76bc2p+3f, 0x1.1fe128p+5f, 0x1.1f399ep+7f }, /* segment 1: from 4 bar */
-    { -0x1.a75fe4p+0f, 0x1.b2121cp+2f, -0x1.f1bcd2p+3f, 0x1.4b1fd8p+5f, 0x1.54d3b8p+7f }, /* segment 2: from 8 bar */
-    { -0x1.9bab3ap+1f, 0x1.2e7fa2p+3f, -0x1.27271ep+4f, 0x1.80c658p+5f, 0x1.92c1b2p+7f }, /* segment 3: from 16 bar */
+    /* segment 0: from 2 bar: -1.3168848, 5.379947, -12.218647, 31.556572, 120.21155 */
+    { -0x1.511f5cp+0f, 0x1.58510ep+2f, -0x1.86ff28p+3f, 0x1.f8e7b8p+4f, 0x1.e0d8ap+6f },
+    /* segment 1: from 4 bar: -1.4704616, 6.0184026, -13.731904, 35.98494, 143.61253 */
+    { -0x1.78702cp+0f, 0x1.812d82p+2f, -0x1.b76bc2p+3f, 0x1.1fe128p+5f, 0x1.1f399ep+7f },
+    /* segment 2: from 8 bar: -1.6538069, 6.7823553, -15.554299, 41.39055, 170.41351 */
+    { -0x1.a75fe4p+0f, 0x1.b2121cp+2f, -0x1.f1bcd2p+3f, 0x1.4b1fd8p+5f, 0x1.54d3b8p+7f },
+    /* segment 3: from 16 bar: -3.216163, 9.45308, -18.44705, 48.096848, 201.37831 */
+    { -0x1.9bab3ap+1f, 0x1.2e7fa2p+3f, -0x1.27271ep+4f, 0x1.80c658p+5f, 0x1.92c1b2p+7f },
 };
 
 static inline float lvg__feedwater_density_sat(float x)
@@ -293,19 +307,27 @@ static inline float lvg__feedwater_density_sat(float x)
  */
 static const float lvg__feedwater_density_z[4][6] = {
     { /* p = 2 bar */
+        /* 998.2512, 983.36084, 958.70044, 926.60516 */
         0x1.f32028p+9f, 0x1.ebae3p+9f, 0x1.df59a8p+9f, 0x1.cf4d76p+9f,
+        /* 887.3719, 839.713 */
         0x1.bbaf9ap+9f, 0x1.a3db44p+9f,
     },
     { /* p = 9.666667 bar */
+        /* 998.60156, 983.6947, 959.05896, 927.01984 */
         0x1.f34dp+9f, 0x1.ebd8ecp+9f, 0x1.df878cp+9f, 0x1.cf828ap+9f,
+        /* 887.88416, 840.39886 */
         0x1.bbf12cp+9f, 0x1.a4330ep+9f,
     },
     { /* p = 17.333334 bar */
+        /* 998.9514, 984.02795, 959.4167, 927.4333 */
         0x1.f379c8p+9f, 0x1.ec0394p+9f, 0x1.dfb556p+9f, 0x1.cfb776p+9f,
+        /* 888.3943, 841.08026 */
         0x1.bc3278p+9f, 0x1.a48a46p+9f,
     },
     { /* p = 25 bar */
+        /* 999.30066, 984.3607, 959.7736, 927.8456 */
         0x1.f3a67cp+9f, 0x1.ec2e2cp+9f, 0x1.dfe306p+9f, 0x1.cfec3cp+9f,
+        /* 888.9023, 841.7573 */
         0x1.bc737ep+9f, 0x1.a4e0fp+9f,
     },
 };
@@ -456,9 +478,12 @@ int32_t lvg_feedwater_density_status(float p, float v, float *y)
  * rebuilt from the key's bits, so t = (x - x[i]) * 2^-e is exact; y = (((c[0]*t + c[1])*t + c[2])*t + c[3])*t + c[4].
  */
 static const float lvg__hx5_outlet_temperature_sat_c[3][5] = {
-    { -0x1.2998d4p+1f, 0x1.2e5b6cp+3f, -0x1.513346p+4f, 0x1.6e2208p+5f, 0x1.5247bap+11f }, /* segment 0: from 2 bar */
-    { -0x1.45e406p+1f, 0x1.49fd3cp+3f, -0x1.6d99f8p+4f, 0x1.6aa368p+5f, 0x1.5641dp+11f }, /* segment 1: from 4 bar */
-    { -0x1.5f4f52p+1f, 0x1.628b4cp+3f, -0x1.886edep+4f, 0x1.46291ap+5f, 0x1.5a09aep+11f }, /* segment 2: from 8 bar */
+    /* segment 0: from 2 bar: -2.3249764, 9.44866, -21.075018, 45.766617, 2706.2415 */
+    { -0x1.2998d4p+1f, 0x1.2e5b6cp+3f, -0x1.513346p+4f, 0x1.6e2208p+5f, 0x1.5247bap+11f },
+    /* segment 1: from 4 bar: -2.5460212, 10.312162, -22.85009, 45.32979, 2738.0566 */
+    { -0x1.45e406p+1f, 0x1.49fd3cp+3f, -0x1.6d99f8p+4f, 0x1.6aa368p+5f, 0x1.5641dp+11f },
+    /* segment 2: from 8 bar: -2.7446082, 11.079504, -24.527067, 40.77007, 2768.3025 */
+    { -0x1.5f4f52p+1f, 0x1.628b4cp+3f, -0x1.886edep+4f, 0x1.46291ap+5f, 0x1.5a09aep+11f },
 };
 
 static inline float lvg__hx5_outlet_temperature_sat(float x)
@@ -510,19 +535,27 @@ static inline float lvg__hx5_outlet_temperature_sat(float x)
  */
 static const float lvg__hx5_outlet_temperature_z[4][7] = {
     { /* p = 2 bar */
+        /* 129.52296, 155.39017, 181.85973, 208.61751 */
         0x1.030bc2p+7f, 0x1.36c7c4p+7f, 0x1.6bb82ep+7f, 0x1.a13c2ap+7f,
+        /* 235.47643, 262.32156, 289.0825 */
         0x1.d6f3eep+7f, 0x1.065252p+8f, 0x1.21151ep+8f,
     },
     { /* p = 6.6666665 bar */
+        /* 150.33762, 170.93622, 194.2254, 218.6549 */
         0x1.2cacdcp+7f, 0x1.55df58p+7f, 0x1.847368p+7f, 0x1.b54f5p+7f,
+        /* 243.77261, 269.3, 295.0452 */
         0x1.e78b94p+7f, 0x1.0d4cccp+8f, 0x1.270b92p+8f,
     },
     { /* p = 11.333333 bar */
+        /* 168.39835, 184.84435, 205.58035, 228.10883 */
         0x1.50cbf4p+7f, 0x1.71b04ep+7f, 0x1.9b2924p+7f, 0x1.c837b8p+7f,
+        /* 251.71573, 276.047, 300.84436 */
         0x1.f76e74p+7f, 0x1.140c08p+8f, 0x1.2cd828p+8f,
     },
     { /* p = 16 bar */
+        /* 183.27254, 197.28308, 216.0091, 236.97908 */
         0x1.6e8b8ap+7f, 0x1.8a90fp+7f, 0x1.b004a8p+7f, 0x1.d9f54ap+7f,
+        /* 259.2904, 282.55182, 306.4753 */
         0x1.034a58p+8f, 0x1.1a8d44p+8f, 0x1.3279aep+8f,
     },
 };
@@ -677,10 +710,14 @@ int32_t lvg_hx5_outlet_temperature_status(float p, float v, float *y)
  * rebuilt from the key's bits, so t = (x - x[i]) * 2^-e is exact; y = (c[0]*t + c[1])*t + c[2].
  */
 static const float lvg__ph2_dryness_liq_c[4][3] = {
-    { -0x1.8150d2p+4f, 0x1.bd518p+6f, 0x1.a16fbep+8f }, /* segment 0: from 1 bar */
-    { -0x1.b01caep+4f, 0x1.fc2fcp+6f, 0x1.f8af1p+8f }, /* segment 1: from 2 bar */
-    { -0x1.e85aep+4f, 0x1.25a214p+7f, 0x1.2e5c9ap+9f }, /* segment 2: from 4 bar */
-    { -0x1.7654eep+5f, 0x1.64b738p+7f, 0x1.688248p+9f }, /* segment 3: from 8 bar */
+    /* segment 0: from 1 bar: -24.082232, 111.32959, 417.4365 */
+    { -0x1.8150d2p+4f, 0x1.bd518p+6f, 0x1.a16fbep+8f },
+    /* segment 1: from 2 bar: -27.007002, 127.04663, 504.68384 */
+    { -0x1.b01caep+4f, 0x1.fc2fcp+6f, 0x1.f8af1p+8f },
+    /* segment 2: from 4 bar: -30.522186, 146.81656, 604.72345 */
+    { -0x1.e85aep+4f, 0x1.25a214p+7f, 0x1.2e5c9ap+9f },
+    /* segment 3: from 8 bar: -46.79147, 178.35785, 721.0178 */
+    { -0x1.7654eep+5f, 0x1.64b738p+7f, 0x1.688248p+9f },
 };
 
 static float lvg__ph2_dryness_liq(float x)
@@ -723,8 +760,10 @@ static float lvg__ph2_dryness_liq(float x)
  * Segment i = largest i with x[i] <= x; t = (x - x[i]) * inv_w[i]; y = ((c[0]*t + c[1])*t + c[2])*t + c[3].
  */
 static const float lvg__ph2_dryness_vap_c[2][4] = {
-    { 0x1.14da44p+6f, -0x1.5d3df6p+7f, 0x1.75b294p+7f, 0x1.4e5e64p+11f }, /* segment 0: from 1 bar */
-    { 0x1.4e5e1p+2f, -0x1.421afep+4f, 0x1.524912p+5f, 0x1.588c8p+11f }, /* segment 1: from 6.0348506 bar */
+    /* segment 0: from 1 bar: 69.21315, -174.62102, 186.84879, 2674.9497 */
+    { 0x1.14da44p+6f, -0x1.5d3df6p+7f, 0x1.75b294p+7f, 0x1.4e5e64p+11f },
+    /* segment 1: from 6.0348506 bar: 5.224491, -20.13159, 42.28568, 2756.3906 */
+    { 0x1.4e5e1p+2f, -0x1.421afep+4f, 0x1.524912p+5f, 0x1.588c8p+11f },
 };
 static const float lvg__ph2_dryness_vap_x[2] = {
     0x1p+0f, 0x1.823afep+2f,
@@ -814,35 +853,32 @@ int32_t lvg_ph2_dryness_status(float p, float a, float *y)
 
 
 /* ==== lvg_ph2_density: density [kg/m^3] of wet steam from pressure [bar] and specific enthalpy [kJ/kg]
- * quality x = (a - a'(p)) / (a''(p) - a'(p)) from saturation tables of pressure, clamped to [0, 1]; output density 1 / (v' + x (v'' - v')). Tables: saturated liquid enthalpy (5 x degree 5, free, 160 B), saturated vapor enthalpy (2 x degree 3, free, 48 B), saturated liquid volume (2 x degree 3, free, 48 B), saturated vapor volume (7 x degree 3, binade, 112 B).
- * Verified 0.0644 % at p = 2.51094 bar, specific enthalpy = 2665.28 kJ/kg, the largest of 100000 sampled points inside the dome (member breakpoints and neighbours, dome edges, seeded random) of the whole function in float32 emulation against the IF97 core; a sampled maximum, not a bound.
+ * quality x = (a - a'(p)) / (a''(p) - a'(p)) from saturation tables of pressure, clamped to [0, 1]; output density 1 / (v' + x (v'' - v')). Tables: saturated liquid enthalpy (4 x degree 5, binade, 96 B), saturated vapor enthalpy (4 x degree 1, binade, 32 B), saturated liquid volume (4 x degree 1, binade, 32 B), saturated vapor volume (7 x degree 3, binade, 112 B).
+ * Verified 0.131 % at p = 1.03619 bar, specific enthalpy = 421.643 kJ/kg, the largest of 100000 sampled points inside the dome (member breakpoints and neighbours, dome edges, seeded random) of the whole function in float32 emulation against the IF97 core; a sampled maximum, not a bound.
  */
 /* ---- lvg__ph2_density_liq: saturated_liquid_enthalpy [kJ/kg] from pressure [bar]
- * 5 segments of degree 5 on free breakpoints (binary search); tolerance 0.000131822 % of the value; verified 0.000125 % at 3.8408835 bar (20000 sampled points).
+ * 4 segments of degree 5, 1 per octave of the input (index from the float's bits, O(1)); tolerance 0.000368206 % of the value; verified 0.000313 % at 1.2121921 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 6 nodes per segment, rounded to float32.
- * Segment i = largest i with x[i] <= x; t = (x - x[i]) * inv_w[i]; y = ((((c[0]*t + c[1])*t + c[2])*t + c[3])*t + c[4])*t + c[5].
+ * i = (bits of x >> 23) - 127 (1 segments per octave); x[i] and 1/width are
+ * rebuilt from the key's bits, so t = (x - x[i]) * 2^-e is exact; y = ((((c[0]*t + c[1])*t + c[2])*t + c[3])*t + c[4])*t + c[5].
  */
-static const float lvg__ph2_density_liq_c[5][6] = {
-    { 0x1.2b465ep+0f, -0x1.632deap+2f, 0x1.c11b56p+3f, -0x1.edec3cp+4f, 0x1.7a88dcp+6f, 0x1.a16fbep+8f }, /* segment 0: from 1 bar */
-    { 0x1.5c0d74p+0f, -0x1.9b0e5ep+2f, 0x1.01d15cp+4f, -0x1.18b12cp+5f, 0x1.ae1d3p+6f, 0x1.eada9ap+8f }, /* segment 1: from 1.8025377 bar */
-    { 0x1.93addp+0f, -0x1.dae1dap+2f, 0x1.27f8f6p+4f, -0x1.3fb83ap+5f, 0x1.ec99d6p+6f, 0x1.1f2c56p+9f }, /* segment 2: from 3.274509 bar */
-    { 0x1.d20614p+0f, -0x1.1158bcp+3f, 0x1.533e4ap+4f, -0x1.6c847ap+5f, 0x1.1ca73cp+7f, 0x1.4f17e8p+9f }, /* segment 3: from 5.9888935 bar */
-    { 0x1.d3075ap-14f, -0x1.031d92p-9f, 0x1.043698p-5f, -0x1.2cfde4p-1f, 0x1.1a08cep+4f, 0x1.86b702p+9f }, /* segment 4: from 11.012984 bar */
-};
-static const float lvg__ph2_density_liq_x[5] = {
-    0x1p+0f, 0x1.cd731cp+0f, 0x1.a3231cp+1f, 0x1.7f4a08p+2f,
-    0x1.606a5ep+3f,
-};
-static const float lvg__ph2_density_liq_iw[5] = {
-    0x1.3efcf6p+0f, 0x1.5bd538p-1f, 0x1.793fdap-2f, 0x1.97a2cep-3f,
-    0x1.035e22p+0f,
+static const float lvg__ph2_density_liq_c[4][6] = {
+    /* segment 0: from 1 bar: 2.6182458, -11.586781, 25.943623, -47.624447, 117.89672, 417.4365 */
+    { 0x1.4f22aep+1f, -0x1.72c6e8p+3f, 0x1.9f1914p+4f, -0x1.7cfedep+5f, 0x1.d7963ep+6f, 0x1.a16fbep+8f },
+    /* segment 1: from 2 bar: 2.8993168, -12.845298, 28.831642, -53.205265, 134.35924, 504.68384 */
+    { 0x1.731cdp+1f, -0x1.9b0caep+3f, 0x1.cd4e68p+4f, -0x1.a9a462p+5f, 0x1.0cb7eep+7f, 0x1.f8af1p+8f },
+    /* segment 2: from 4 bar: 3.2339852, -14.345844, 32.28441, -59.90045, 155.02228, 604.72345 */
+    { 0x1.9df33ap+1f, -0x1.cb1128p+3f, 0x1.024678p+5f, -0x1.df342p+5f, 0x1.360b68p+7f, 0x1.2e5c9ap+9f },
+    /* segment 3: from 8 bar: 8.0239, -23.096807, 40.27407, -68.77151, 181.66496, 721.0178 */
+    { 0x1.00c3cap+3f, -0x1.718c86p+4f, 0x1.42314cp+5f, -0x1.131606p+6f, 0x1.6b5476p+7f, 0x1.688248p+9f },
 };
 
 static float lvg__ph2_density_liq(float x)
 {
     const float *c;
     float t, y;
-    uint32_t lo = 0u, hi = 5u;
+    uint32_t bits, key, i;
+    float xi, iw;
 
     if (x != x) {
         return x; /* not a number in, not a number out */
@@ -852,16 +888,18 @@ static float lvg__ph2_density_liq(float x)
     } else if (x > 0x1.8p+3f) {
         x = 0x1.8p+3f;
     }
-    while (hi - lo > 1u) {
-        uint32_t mid = (lo + hi) >> 1;
-        if (x >= lvg__ph2_density_liq_x[mid]) {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
+    memcpy(&bits, &x, sizeof bits);
+    i = (bits >> 23u) - 127u;
+    if (i > 3u) {
+        i = 3u;
     }
-    t = (x - lvg__ph2_density_liq_x[lo]) * lvg__ph2_density_liq_iw[lo];
-    c = lvg__ph2_density_liq_c[lo];
+    key = i + 127u;
+    bits = key << 23u;
+    memcpy(&xi, &bits, sizeof xi);
+    bits = (254u - (key >> 0u)) << 23u;
+    memcpy(&iw, &bits, sizeof iw);
+    t = (x - xi) * iw;
+    c = lvg__ph2_density_liq_c[i];
     y = c[0];
     y = y * t + c[1];
     y = y * t + c[2];
@@ -873,26 +911,28 @@ static float lvg__ph2_density_liq(float x)
 
 
 /* ---- lvg__ph2_density_vap: saturated_vapor_enthalpy [kJ/kg] from pressure [bar]
- * 2 segments of degree 3 on free breakpoints (binary search); tolerance 0.790886 kJ/kg; verified 0.632 kJ/kg at 2.6573272 bar (20000 sampled points).
- * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 4 nodes per segment, rounded to float32.
- * Segment i = largest i with x[i] <= x; t = (x - x[i]) * inv_w[i]; y = ((c[0]*t + c[1])*t + c[2])*t + c[3].
+ * 4 segments of degree 1, 1 per octave of the input (index from the float's bits, O(1)); tolerance 2.2091 kJ/kg; verified 1.99 kJ/kg at 7.9999995 bar (20000 sampled points).
+ * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 2 nodes per segment, rounded to float32.
+ * i = (bits of x >> 23) - 127 (1 segments per octave); x[i] and 1/width are
+ * rebuilt from the key's bits, so t = (x - x[i]) * 2^-e is exact; y = c[0]*t + c[1].
  */
-static const float lvg__ph2_density_vap_c[2][4] = {
-    { 0x1.4f275ep+5f, -0x1.c0ba6ep+6f, 0x1.15652cp+7f, 0x1.4e5e64p+11f }, /* segment 0: from 1 bar */
-    { 0x1.d1ccf4p+3f, -0x1.7314aep+5f, 0x1.20f44ap+6f, 0x1.56eb8p+11f }, /* segment 1: from 4.497303 bar */
-};
-static const float lvg__ph2_density_vap_x[2] = {
-    0x1p+0f, 0x1.1fd3dp+2f,
-};
-static const float lvg__ph2_density_vap_iw[2] = {
-    0x1.24cc0cp-2f, 0x1.10f7fp-3f,
+static const float lvg__ph2_density_vap_c[4][2] = {
+    /* segment 0: from 1 bar: 31.2917, 2676.9375 */
+    { 0x1.f4aacep+4f, 0x1.4e9ep+11f },
+    /* segment 1: from 2 bar: 31.81528, 2708.2292 */
+    { 0x1.fd0b64p+4f, 0x1.528756p+11f },
+    /* segment 2: from 4 bar: 30.245842, 2740.0447 */
+    { 0x1.e3eef8p+4f, 0x1.56816ep+11f },
+    /* segment 3: from 8 bar: 30.933336, 2770.2905 */
+    { 0x1.eeeef2p+4f, 0x1.5a494cp+11f },
 };
 
 static float lvg__ph2_density_vap(float x)
 {
     const float *c;
     float t, y;
-    uint32_t lo = 0u, hi = 2u;
+    uint32_t bits, key, i;
+    float xi, iw;
 
     if (x != x) {
         return x; /* not a number in, not a number out */
@@ -902,45 +942,47 @@ static float lvg__ph2_density_vap(float x)
     } else if (x > 0x1.8p+3f) {
         x = 0x1.8p+3f;
     }
-    while (hi - lo > 1u) {
-        uint32_t mid = (lo + hi) >> 1;
-        if (x >= lvg__ph2_density_vap_x[mid]) {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
+    memcpy(&bits, &x, sizeof bits);
+    i = (bits >> 23u) - 127u;
+    if (i > 3u) {
+        i = 3u;
     }
-    t = (x - lvg__ph2_density_vap_x[lo]) * lvg__ph2_density_vap_iw[lo];
-    c = lvg__ph2_density_vap_c[lo];
+    key = i + 127u;
+    bits = key << 23u;
+    memcpy(&xi, &bits, sizeof xi);
+    bits = (254u - (key >> 0u)) << 23u;
+    memcpy(&iw, &bits, sizeof iw);
+    t = (x - xi) * iw;
+    c = lvg__ph2_density_vap_c[i];
     y = c[0];
     y = y * t + c[1];
-    y = y * t + c[2];
-    y = y * t + c[3];
     return y;
 }
 
 
 /* ---- lvg__ph2_density_out_liq: saturated_liquid_volume [1/(kg/m^3)] from pressure [bar]
- * 2 segments of degree 3 on free breakpoints (binary search); tolerance 0.0395599 % of the value; verified 0.0317 % at 1.4153439 bar (20000 sampled points).
- * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 4 nodes per segment, rounded to float32.
- * Segment i = largest i with x[i] <= x; t = (x - x[i]) * inv_w[i]; y = ((c[0]*t + c[1])*t + c[2])*t + c[3].
+ * 4 segments of degree 1, 1 per octave of the input (index from the float's bits, O(1)); tolerance 0.110499 % of the value; verified 0.0994 % at 4 bar (20000 sampled points).
+ * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 2 nodes per segment, rounded to float32.
+ * i = (bits of x >> 23) - 127 (1 segments per octave); x[i] and 1/width are
+ * rebuilt from the key's bits, so t = (x - x[i]) * 2^-e is exact; y = c[0]*t + c[1].
  */
-static const float lvg__ph2_density_out_liq_c[2][4] = {
-    { 0x1.6ca1aep-16f, -0x1.ead5cap-15f, 0x1.7dcadcp-14f, 0x1.117478p-10f }, /* segment 0: from 1 bar */
-    { 0x1.be7e7ep-19f, -0x1.b0d884p-17f, 0x1.a9237p-15f, 0x1.1facfep-10f }, /* segment 1: from 5.5891676 bar */
-};
-static const float lvg__ph2_density_out_liq_x[2] = {
-    0x1p+0f, 0x1.65b4ecp+2f,
-};
-static const float lvg__ph2_density_out_liq_iw[2] = {
-    0x1.be44bp-3f, 0x1.3f7594p-3f,
+static const float lvg__ph2_density_out_liq_c[4][2] = {
+    /* segment 0: from 1 bar: 1.738784e-05, 0.0010441851 */
+    { 0x1.23b834p-16f, 0x1.11ba14p-10f },
+    /* segment 1: from 2 bar: 2.3063441e-05, 0.0010615729 */
+    { 0x1.82f0bap-16f, 0x1.1648f4p-10f },
+    /* segment 2: from 4 bar: 3.1259973e-05, 0.0010846364 */
+    { 0x1.063a48p-15f, 0x1.1c54b8p-10f },
+    /* segment 3: from 8 bar: 4.7477766e-05, 0.0011158964 */
+    { 0x1.8e45bap-15f, 0x1.24868ap-10f },
 };
 
 static float lvg__ph2_density_out_liq(float x)
 {
     const float *c;
     float t, y;
-    uint32_t lo = 0u, hi = 2u;
+    uint32_t bits, key, i;
+    float xi, iw;
 
     if (x != x) {
         return x; /* not a number in, not a number out */
@@ -950,38 +992,45 @@ static float lvg__ph2_density_out_liq(float x)
     } else if (x > 0x1.8p+3f) {
         x = 0x1.8p+3f;
     }
-    while (hi - lo > 1u) {
-        uint32_t mid = (lo + hi) >> 1;
-        if (x >= lvg__ph2_density_out_liq_x[mid]) {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
+    memcpy(&bits, &x, sizeof bits);
+    i = (bits >> 23u) - 127u;
+    if (i > 3u) {
+        i = 3u;
     }
-    t = (x - lvg__ph2_density_out_liq_x[lo]) * lvg__ph2_density_out_liq_iw[lo];
-    c = lvg__ph2_density_out_liq_c[lo];
+    key = i + 127u;
+    bits = key << 23u;
+    memcpy(&xi, &bits, sizeof xi);
+    bits = (254u - (key >> 0u)) << 23u;
+    memcpy(&iw, &bits, sizeof iw);
+    t = (x - xi) * iw;
+    c = lvg__ph2_density_out_liq_c[i];
     y = c[0];
     y = y * t + c[1];
-    y = y * t + c[2];
-    y = y * t + c[3];
     return y;
 }
 
 
 /* ---- lvg__ph2_density_out_vap: saturated_vapor_volume [1/(kg/m^3)] from pressure [bar]
- * 7 segments of degree 3, 2 per octave of the input (index from the float's bits, O(1)); tolerance 0.0395599 % of the value; verified 0.0371 % at 10.004458 bar (20000 sampled points).
+ * 7 segments of degree 3, 2 per octave of the input (index from the float's bits, O(1)); tolerance 0.110499 % of the value; verified 0.0371 % at 10.003053 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 4 nodes per segment, rounded to float32.
  * i = (bits of x >> 22) - 254 (2 segments per octave); x[i] and 1/width are
  * rebuilt from the key's bits, so t = (x - x[i]) * 2^-e is exact; y = ((c[0]*t + c[1])*t + c[2])*t + c[3].
  */
 static const float lvg__ph2_density_out_vap_c[7][4] = {
-    { -0x1.4f692cp-4f, 0x1.53d538p-2f, -0x1.91bd16p-1f, 0x1.b1ab76p+0f }, /* segment 0: from 1 bar */
-    { -0x1.5c0d0ep-6f, 0x1.b9b442p-4f, -0x1.70dcb6p-2f, 0x1.28cba6p+0f }, /* segment 1: from 1.5 bar */
-    { -0x1.5e6f2cp-5f, 0x1.63456p-3f, -0x1.a47fe4p-2f, 0x1.c57f12p-1f }, /* segment 2: from 2 bar */
-    { -0x1.6c0364p-7f, 0x1.ce4554p-5f, -0x1.827cb8p-3f, 0x1.362984p-1f }, /* segment 3: from 3 bar */
-    { -0x1.6ee0dp-6f, 0x1.7424e4p-4f, -0x1.b8e47ep-3f, 0x1.d97d3cp-2f }, /* segment 4: from 4 bar */
-    { -0x1.7d771ap-8f, 0x1.e4af26p-6f, -0x1.958b4cp-4f, 0x1.432628p-2f }, /* segment 5: from 6 bar */
-    { -0x1.80cac6p-7f, 0x1.8672dep-5f, -0x1.ced5dap-4f, 0x1.ec30d6p-3f }, /* segment 6: from 8 bar */
+    /* segment 0: from 1 bar: -0.08188741, 0.33186805, -0.78464574, 1.6940225 */
+    { -0x1.4f692cp-4f, 0x1.53d538p-2f, -0x1.91bd16p-1f, 0x1.b1ab76p+0f },
+    /* segment 1: from 1.5 bar: -0.021243347, 0.10783792, -0.36021695, 1.1593574 */
+    { -0x1.5c0d0ep-6f, 0x1.b9b442p-4f, -0x1.70dcb6p-2f, 0x1.28cba6p+0f },
+    /* segment 2: from 2 bar: -0.04277762, 0.17347217, -0.4106441, 0.8857351 */
+    { -0x1.5e6f2cp-5f, 0x1.63456p-3f, -0x1.a47fe4p-2f, 0x1.c57f12p-1f },
+    /* segment 3: from 3 bar: -0.011108803, 0.056429543, -0.18871444, 0.6057855 */
+    { -0x1.6c0364p-7f, 0x1.ce4554p-5f, -0x1.827cb8p-3f, 0x1.362984p-1f },
+    /* segment 4: from 4 bar: -0.022392467, 0.090855494, -0.21527956, 0.4623918 */
+    { -0x1.6ee0dp-6f, 0x1.7424e4p-4f, -0x1.b8e47ep-3f, 0x1.d97d3cp-2f },
+    /* segment 5: from 6 bar: -0.0058206976, 0.029582774, -0.0990098, 0.31557524 */
+    { -0x1.7d771ap-8f, 0x1.e4af26p-6f, -0x1.958b4cp-4f, 0x1.432628p-2f },
+    /* segment 6: from 8 bar: -0.0117429225, 0.047662195, -0.11299691, 0.24032752 */
+    { -0x1.80cac6p-7f, 0x1.8672dep-5f, -0x1.ced5dap-4f, 0x1.ec30d6p-3f },
 };
 
 static float lvg__ph2_density_out_vap(float x)

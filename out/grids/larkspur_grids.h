@@ -113,12 +113,12 @@ int32_t lvg_ph2_dryness_status(float p, float a, float *y);
  *   domain     wet steam, pressure 1 to 12 bar, specific enthalpy between saturated liquid and saturated vapour
  *   output     density in kg/m^3
  *   tolerance  0.2 % of the value
- *   verified   0.0644 % at p = 2.51094 bar, specific enthalpy = 2665.28 kJ/kg, the largest of 100000 sampled points inside the dome (member breakpoints and neighbours, dome edges, seeded random) of the whole function in float32 emulation against the IF97 core; a sampled maximum, not a bound
- *   with FMA   0.0645 % when the compiler fuses multiply-adds (emulated)
- *   method     quality x = (a - a'(p)) / (a''(p) - a'(p)) from saturation tables of pressure, clamped to [0, 1]; output density 1 / (v' + x (v'' - v')). Tables: saturated liquid enthalpy (5 x degree 5, free, 160 B), saturated vapor enthalpy (2 x degree 3, free, 48 B), saturated liquid volume (2 x degree 3, free, 48 B), saturated vapor volume (7 x degree 3, binade, 112 B)
- *   storage    368 bytes (92 float values)
+ *   verified   0.131 % at p = 1.03619 bar, specific enthalpy = 421.643 kJ/kg, the largest of 100000 sampled points inside the dome (member breakpoints and neighbours, dome edges, seeded random) of the whole function in float32 emulation against the IF97 core; a sampled maximum, not a bound
+ *   with FMA   0.131 % when the compiler fuses multiply-adds (emulated)
+ *   method     quality x = (a - a'(p)) / (a''(p) - a'(p)) from saturation tables of pressure, clamped to [0, 1]; output density 1 / (v' + x (v'' - v')). Tables: saturated liquid enthalpy (4 x degree 5, binade, 96 B), saturated vapor enthalpy (4 x degree 1, binade, 32 B), saturated liquid volume (4 x degree 1, binade, 32 B), saturated vapor volume (7 x degree 3, binade, 112 B)
+ *   storage    272 bytes (68 float values)
  *   outside    a pressure outside the range is clamped to it, a point outside the dome gets the value at its edge; NaN gives NaN
- *   status     SUBCOOLED where the run time's quality is below 0, SUPERHEATED above 1; the run time's quality is within 0.00029 of the core's, so the status can be wrong only that close to the dome's edge
+ *   status     SUBCOOLED where the run time's quality is below 0, SUPERHEATED above 1; the run time's quality is within 0.001 of the core's, so the status can be wrong only that close to the dome's edge
  */
 #define LVG_PH2_DENSITY_P_MIN 0x1p+0f /* 1 */
 #define LVG_PH2_DENSITY_P_MAX 0x1.8p+3f /* 12 */
