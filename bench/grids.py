@@ -37,7 +37,6 @@ from gen import arith  # noqa: E402
 from gen.emit.common import template_env  # noqa: E402
 from gen.emit.grid2d import grid_c_context  # noqa: E402
 from gen.fit import grid2d as G  # noqa: E402
-from gen.if97 import region1, region2  # noqa: E402
 
 F32 = np.float32
 RATIO_TARGET = 10.0

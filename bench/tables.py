@@ -358,8 +358,8 @@ def forced_break_diagnostic(c, f, scale, budget):
     if not (above > 1e-3 and above > 10 * below):
         return
     up = first_f32_at_or_above(sw)
-    print(f"        -> the break is one float32 below the core's step: a segment starting at "
-          f"the break begins on the lower equation")
+    print("        -> the break is one float32 below the core's step: a segment starting at "
+          "the break begins on the lower equation")
     d = pw.degree
     hi = float(pw.hi)
     one = bool(_accept(f, scale, xb, [hi], d, budget, table.monotone)[0])

@@ -111,10 +111,10 @@ def main():
                   f"{base.storage_bytes / wt.storage_bytes:6.1f}x "
                   f"{err_text(ts, wt.verification['max_error']):>10s} {ins:6.0f} "
                   f"{statistics.median(times):8.2f} {ins_b:15.0f}")
-            print(f"    tables: " + ", ".join(
+            print("    tables: " + ", ".join(
                 f"{role} {t.piecewise.nseg}x{t.piecewise.degree} {t.piecewise.layout}"
                 for role, t in wt.members.items())
-                + f"; baseline: " + ", ".join(f"{role} {t.piecewise.nseg} segments"
+                + "; baseline: " + ", ".join(f"{role} {t.piecewise.nseg} segments"
                                               for role, t in base.members.items()))
     print("insns: instructions inside the function per call (callgrind, -O2 x86-64, "
           f"(count at N={CALL_N[1]} - count at N={CALL_N[0]}) / {CALL_N[1] - CALL_N[0]}).")

@@ -2166,7 +2166,7 @@ def verdict_line(audit):
 
 def audit_report_markdown(audit, plot_name=None):
     from .emit.common import CAUTION
-    spec, t, v = audit.spec, audit.table, audit.verification
+    spec, v = audit.spec, audit.verification
     lines = [f"# h2olut audit: {_md(Path(audit.source).name)}", "",
              f"Audited by h2olut {__version__}: `{_md(Path(audit.source).name)}` (sha256 "
              f"`{audit.sha256[:16]}…`)." + (f" Rerun with `{spec.command}`." if spec.command

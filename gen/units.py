@@ -63,7 +63,6 @@ def difference_scale(unit, kind):
 
 def parse_quantity(text, kind):
     """Parse "10 bar" or "180 degC" into an SI value; a bare number is taken as SI."""
-    ureg = _registry()
     s = str(text).strip()
     try:
         return float(s)

@@ -7,7 +7,6 @@ applied to its printed cells. The independent recomputations are written here wi
 numpy / scipy and do not call the audit's evaluators.
 """
 
-import copy
 import json
 import re
 from fractions import Fraction

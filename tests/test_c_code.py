@@ -6,7 +6,6 @@ import subprocess
 import numpy as np
 import pytest
 
-from gen import arith
 from gen.build import core_function, error_scale
 from gen.verify import verification_points
 

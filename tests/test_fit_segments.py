@@ -4,7 +4,6 @@ placement, the bit-index layout, breakpoint sealing and centred chords."""
 import numpy as np
 import pytest
 
-from gen import arith
 from gen.build import error_scale
 from gen.fit import segments as S
 from gen.fit.piecewise import Piecewise1D

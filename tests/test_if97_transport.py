@@ -24,7 +24,6 @@ cp, cv and (d rho/d p)_T for the industrial-formulation tables (7-9) come from I
 
 import importlib
 import importlib.util
-from decimal import Decimal
 
 import numpy as np
 import pytest

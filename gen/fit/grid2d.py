@@ -1878,7 +1878,6 @@ def _sweeps(prob, lines, m):
 def order_reversals(g, prob, lines=24, m=1024):
     """Reversals of order in the emulated function along sweeps in each input, where the core
     is monotone in that input over the domain: (along p at fixed v, along v at fixed p)."""
-    d = prob.dom
     key = ("sweeps", lines, m)
     if key not in prob._cache:
         prob._cache[key] = _sweeps(prob, lines, m)
