@@ -3,15 +3,15 @@
 The maths is fixed by :mod:`gen.arith`; this module only turns a table into the strings the
 templates lay out (hex-float literals with their decimal value in a comment, sizes, names).
 
-Offers ``c_context(spec, tables, base)``, ``render_c(spec, tables, base)`` -> {file: text},
+Offers ``table_view(t)``, ``render_c(spec, tables, base)`` -> {file: text},
 ``vector_points(table, n_random)``.
 """
 
 import numpy as np
 
 from .. import arith
-from .common import (CAUTION, c_comment, decimal, hex_literal, provenance, summary,
-                     table_kind, template_env)
+from .common import (CAUTION, bits_literal, c_comment, decimal, hex_literal, provenance,
+                     ref_literal, summary, table_kind, template_env)
 
 #: random points per table in the C test-vector program (besides the directed ones)
 RANDOM_VECTORS = 500
@@ -60,6 +60,8 @@ def table_context(table):
         "lo_dec": decimal(pw.lo, fmt),
         "hi_dec": decimal(pw.hi, fmt),
         "policy": pw.policy,
+        "needs_string": pw.layout == "binade",
+        "needs_math": pw.policy == "nan" or pw.layout == "closed_form",
     }
     if pw.layout == "closed_form":
         names = [f"n{i}" for i in range(1, 11)] + ["a", "b", "c", "d"]
@@ -117,12 +119,8 @@ def vectors_context(table, reference):
     if pw.policy == "nan":
         ref = np.where((x < ft(pw.lo)) | (x > ft(pw.hi)), np.nan, ref)
     utype = np.uint32 if fmt == "float32" else np.uint64
-    bits = y.astype(ft).view(utype)
-    rows = []
-    for xi, bi, ri in zip(x, bits, ref):
-        rows.append({"x": hex_literal(xi, fmt),
-                     "bits": f"0x{int(bi):0{8 if fmt == 'float32' else 16}x}u",
-                     "ref": "(double)NAN" if np.isnan(ri) else repr(float(ri))})
+    rows = [{"x": hex_literal(xi, fmt), "bits": bi, "ref": ref_literal(ri)}
+            for xi, bi, ri in zip(x, bits_literal(y, fmt), ref)]
     specials = [{"x": "INFINITY", "expect": "hi" if pw.policy == "clamp" else "nan"},
                 {"x": "-INFINITY", "expect": "lo" if pw.policy == "clamp" else "nan"},
                 {"x": "NAN", "expect": "nan"}]
@@ -166,14 +164,10 @@ def vectors_context_2d(table):
     fmt = g.fmt
     ft = arith.FORMATS[fmt]
     P, V = vector_points_2d(table)
-    y = g(P, V).astype(ft)
     ref = dom.core(P, V)
-    utype = np.uint32 if fmt == "float32" else np.uint64
-    bits = y.view(utype)
-    rows = [{"p": hex_literal(p, fmt), "v": hex_literal(v, fmt),
-             "bits": f"0x{int(bi):0{8 if fmt == 'float32' else 16}x}u",
-             "ref": "(double)NAN" if np.isnan(r) else repr(float(r))}
-            for p, v, bi, r in zip(P, V, bits, ref)]
+    rows = [{"p": hex_literal(p, fmt), "v": hex_literal(v, fmt), "bits": bi,
+             "ref": ref_literal(r)}
+            for p, v, bi, r in zip(P, V, bits_literal(g(P, V), fmt), ref)]
     wrong = []
     if dom.side:
         # a point a little on the other side of saturation, at mid pressure
@@ -197,48 +191,47 @@ def vectors_context_wet(table):
     _, ref = reference(table.spec, P, A)
     lo, hi = float(table.p_lo), float(table.p_hi)
     ref = np.where((P < lo) | (P > hi), np.nan, ref)
-    utype = np.uint32 if fmt == "float32" else np.uint64
-    bits = y.view(utype)
-    rows = [{"p": hex_literal(p, fmt), "a": hex_literal(a, fmt),
-             "bits": f"0x{int(bi):0{8 if fmt == 'float32' else 16}x}u", "status": int(s),
-             "is_nan": int(np.isnan(yi)),
-             "ref": "(double)NAN" if np.isnan(r) else repr(float(r))}
-            for p, a, bi, s, yi, r in zip(P, A, bits, st, y, ref)]
+    rows = [{"p": hex_literal(p, fmt), "a": hex_literal(a, fmt), "bits": bi, "status": int(s),
+             "is_nan": int(np.isnan(yi)), "ref": ref_literal(r)}
+            for p, a, bi, s, yi, r in zip(P, A, bits_literal(y, fmt), st, y, ref)]
     return {"rows": rows, "count": len(rows), "tol_kind": table.spec.tol_kind,
             "tol": repr(float(table.spec.tol_value))}
+
+
+def table_view(t):
+    """The template context of any built table (one input, grid or wet steam), with the
+    flags ``is_grid`` and ``is_wet`` the templates branch on."""
+    from .grid2d import grid_c_context
+    from .wet import wet_c_context
+    kind = table_kind(t)
+    if kind == "grid":
+        c = grid_c_context(t.gt, t.spec.function, t.spec.name)
+    elif kind == "wet":
+        c = wet_c_context(t)
+    else:
+        c = table_context(t)
+    c["is_grid"] = kind == "grid"
+    c["is_wet"] = kind == "wet"
+    return c
 
 
 def render_c(spec, tables, base, references):
     """Render NAME.h, NAME.c and NAME_vectors.c; ``references[name]`` is the core in user units."""
     env = template_env()
     guard = "".join(ch if ch.isalnum() else "_" for ch in base).upper() + "_H"
-    from .grid2d import grid_c_context
     ctxs = []
-    from .wet import wet_c_context
     for t in tables:
-        kind = table_kind(t)
-        if kind == "grid":
-            c = grid_c_context(t.gt, t.spec.function, t.spec.name)
-            c["vec"] = vectors_context_2d(t)
-        elif kind == "wet":
-            c = wet_c_context(t)
-            c["vec"] = vectors_context_wet(t)
-        else:
-            c = table_context(t)
-            c["vec"] = vectors_context(t, references[t.name])
-        c["is_grid"] = kind == "grid"
-        c["is_wet"] = kind == "wet"
+        c = table_view(t)
+        c["vec"] = (vectors_context_2d(t) if c["is_grid"] else vectors_context_wet(t)
+                    if c["is_wet"] else vectors_context(t, references[t.name]))
         ctxs.append(c)
     ctx = {"p": provenance(spec), "caution": CAUTION, "base": base, "guard": guard,
            "PRE": spec.prefix.upper(), "pre": spec.prefix,
            "spec_description": c_comment(spec.description), "tables": ctxs,
            "any_two": any(c["is_grid"] for c in ctxs),
-           "any_wet": any(c["is_wet"] for c in ctxs)}
-    ctx["needs_string"] = any(c["needs_string"] if c["is_grid"] or c["is_wet"]
-                              else c["layout"] == "binade" for c in ctxs)
-    ctx["needs_math"] = any(c["needs_math"] if c["is_grid"] or c["is_wet"]
-                            else (c["policy"] == "nan" or c["layout"] == "closed_form")
-                            for c in ctxs)
+           "any_wet": any(c["is_wet"] for c in ctxs),
+           "needs_string": any(c["needs_string"] for c in ctxs),
+           "needs_math": any(c["needs_math"] for c in ctxs)}
     return {f"{base}.h": env.get_template("c_header.h.j2").render(ctx),
             f"{base}.c": env.get_template("c_source.c.j2").render(ctx),
             f"{base}_vectors.c": env.get_template("c_vectors.c.j2").render(ctx)}

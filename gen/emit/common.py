@@ -1,7 +1,8 @@
 """What every emitter shares: literal formatting, escaping of spec text, the per-table summary.
 
 Offers ``hex_literal``, ``c_comment``, ``py_comment``, ``summary(table)``, ``CAUTION``,
-``template_env()``, ``provenance(spec)``, ``table_kind(t)``.
+``template_env()``, ``provenance(spec)``, ``table_kind(t)``, ``tolerance_text``,
+``error_text``, ``bits_literal``, ``ref_literal``.
 """
 
 import math
@@ -94,6 +95,31 @@ def _g(v, digits=6):
     return f"{v:.{digits}g}"
 
 
+def tolerance_text(kind, value, unit):
+    """'0.02 degC' or '0.1 % of the value' (a dimensionless unit is left out)."""
+    sp = f" {unit}" if unit else ""
+    return f"{_g(value)}{sp}" if kind == "abs" else f"{_g(value * 100)} % of the value"
+
+
+def error_text(kind, e, unit):
+    """A verified error in the tolerance's terms: '0.0065 degC' or '0.0239 %'."""
+    sp = f" {unit}" if unit else ""
+    return f"{e:.3g}{sp}" if kind == "abs" else f"{e * 100:.3g} %"
+
+
+def bits_literal(y, fmt):
+    """C literals of the bit patterns of ``y`` in ``fmt`` ('0x3f800000u')."""
+    ft = arith.FORMATS[fmt]
+    utype = np.uint32 if fmt == "float32" else np.uint64
+    width = 8 if fmt == "float32" else 16
+    return [f"0x{int(b):0{width}x}u" for b in np.asarray(y).astype(ft).view(utype).ravel()]
+
+
+def ref_literal(r):
+    """A reference value as a C double literal (NAN where the core has none)."""
+    return "(double)NAN" if np.isnan(r) else repr(float(r))
+
+
 def _n(count, word):
     return f"{count} {word}" + ("" if count == 1 else "s")
 
@@ -104,10 +130,8 @@ def summary(table):
     pw = table.piecewise
     v = table.verification
     inp = ts.inputs[0]
-    tol = (f"{_g(ts.tol_value)} {ts.output_unit}" if ts.tol_kind == "abs"
-           else f"{_g(ts.tol_value * 100)} % of the value")
-    err = (f"{v['max_error']:.3g} {ts.output_unit}" if ts.tol_kind == "abs"
-           else f"{v['max_error'] * 100:.3g} %")
+    tol = tolerance_text(ts.tol_kind, ts.tol_value, ts.output_unit)
+    err = error_text(ts.tol_kind, v["max_error"], ts.output_unit)
     gauge = " (gauge, atmosphere {:g} Pa)".format(inp.atmosphere) if inp.atmosphere else ""
     if pw.layout == "closed_form":
         eq = "eq. 31" if pw.kind == "temperature" else "eq. 30"
@@ -146,8 +170,7 @@ def summary(table):
                      f"evaluated in {pw.fmt} emulation against the IF97 core; a sampled maximum, "
                      f"not a bound"),
         "fused": (None if "max_error_fused" not in v else
-                  (f"{v['max_error_fused']:.3g} {ts.output_unit}" if ts.tol_kind == "abs"
-                   else f"{v['max_error_fused'] * 100:.3g} %")),
+                  error_text(ts.tol_kind, v["max_error_fused"], ts.output_unit)),
         "method": method,
         "storage": f"{pw.storage_bytes} bytes ({pw.stored_values()} {ctype} values)",
         "policy": {"clamp": "inputs outside the range are clamped to it; NaN gives NaN",

@@ -8,7 +8,7 @@ import numpy as np
 
 from .. import arith
 from ..fit.grid2d import INPUT_WORDS, describe_domain
-from .common import c_comment, decimal, hex_literal
+from .common import c_comment, decimal, error_text, hex_literal, tolerance_text
 
 
 def _g(v):
@@ -52,11 +52,10 @@ def _axis_context(ax, method, fmt, unit):
 def grid_summary(gt):
     """Plain strings describing a two-input table, for the C error block and the report."""
     dom, g, v = gt.domain, gt.grid, gt.verification
-    tol = (f"{gt.tol:g} {dom.out_unit}" if gt.tol_kind == "abs"
-           else f"{gt.tol * 100:g} % of the value")
+    tol = tolerance_text(gt.tol_kind, gt.tol, dom.out_unit)
 
     def err(e):
-        return (f"{e:.3g} {dom.out_unit}" if gt.tol_kind == "abs" else f"{e * 100:.3g} %")
+        return error_text(gt.tol_kind, e, dom.out_unit)
 
     at = v["at"]
     raw = (f"{INPUT_WORDS[dom.second]} itself" if not g.side else

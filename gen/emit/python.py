@@ -9,7 +9,7 @@ from pathlib import Path
 import numpy as np
 
 from .. import arith
-from .c import table_context
+from .c import table_view
 from .common import CAUTION, provenance, table_kind, template_env
 
 
@@ -67,21 +67,14 @@ def render_python(spec, tables, base):
     ctxs = []
     kinds = set()
     for t in tables:
-        kind = table_kind(t)
-        kinds.add(kind)
-        if kind == "grid":
-            from .grid2d import grid_c_context
-            c = grid_c_context(t.gt, t.spec.function, t.spec.name)
+        kinds.add(table_kind(t))
+        c = table_view(t)
+        if c["is_grid"]:
             c["py_tab"] = py_literal(t.gt.grid.runtime(), t.gt.grid.fmt)
-        elif kind == "wet":
-            from .wet import wet_c_context
-            c = wet_c_context(t)
+        elif c["is_wet"]:
             c["py_tab"] = py_literal(t.runtime(), t.fmt)
         else:
-            c = table_context(t)
             c["py"] = _py_table(t)
-        c["is_grid"] = kind == "grid"
-        c["is_wet"] = kind == "wet"
         ctxs.append(c)
     from .. import arith2d, arith_wet
     for kind, mod in (("grid", arith2d), ("wet", arith_wet)):

@@ -5,7 +5,7 @@ Offers ``wet_summary(wt)``, ``wet_c_context(wt)``.
 """
 
 from .. import arith
-from .common import c_comment, decimal, hex_literal
+from .common import c_comment, decimal, error_text, hex_literal, tolerance_text
 
 
 def _g(v, n=6):
@@ -21,12 +21,10 @@ def wet_summary(wt):
     ts, v = wt.spec, wt.verification
     pin, ain = ts.inputs
     unit = ts.output_unit or "1"
-    sp = f" {ts.output_unit}" if ts.output_unit else ""
-    tol = (f"{ts.tol_value:g}{sp}" if ts.tol_kind == "abs"
-           else f"{ts.tol_value * 100:g} % of the value")
+    tol = tolerance_text(ts.tol_kind, ts.tol_value, ts.output_unit)
 
     def err(e):
-        return f"{e:.3g}{sp}" if ts.tol_kind == "abs" else f"{e * 100:.3g} %"
+        return error_text(ts.tol_kind, e, ts.output_unit)
 
     at = v["at"]
     out = {"quality": "quality x", "saturation": "saturation temperature at p",
