@@ -87,8 +87,9 @@ from . import __version__
 from . import quantities as Q
 from . import units as U
 from .build import core_function, error_scale, format_floor
-from .report import _md
+from .report import md_escape
 from .verify import verify_table
+from .wet import WetFunction
 
 INTERPOLATIONS = ("step", "nearest", "linear", "linear-in-log", "cubic-spline", "bilinear")
 FLOAT_FORMATS = {"float32": np.float32, "float64": np.float64}
@@ -1948,12 +1949,12 @@ def audit_generated(report_path, module_path=None):
     return out
 
 
-class GeneratedWet:
+class GeneratedWet(WetFunction):
     """A wet-steam function of a generated Python module, evaluated by the module's own run
     time on its stored tables, with what :func:`gen.wet.verify_wet` asks of a table."""
 
     def __init__(self, module, function, spec, breakpoints):
-        self.module = module
+        self.run = module
         self.function = function
         self.tab = getattr(module, f"_{function}")
         self.spec = spec
@@ -1965,18 +1966,6 @@ class GeneratedWet:
 
     def breakpoints(self):
         return self._breakpoints
-
-    def _shape(self, y, p, a):
-        return y.reshape(np.broadcast(np.asarray(p), np.asarray(a)).shape)
-
-    def __call__(self, p, a, fused=False):
-        return self._shape(self.module.evaluate_wet(p, a, self.tab, fused), p, a)
-
-    def status(self, p, a):
-        return self._shape(self.module.status_wet(p, a, self.tab), p, a)
-
-    def quality(self, p, a):
-        return self._shape(self.module.quality_wet(p, a, self.tab)[3], p, a)
 
 
 def _reverify_wet(mod, rec, report_path):
@@ -2167,16 +2156,16 @@ def verdict_line(audit):
 def audit_report_markdown(audit, plot_name=None):
     from .emit.common import CAUTION
     spec, v = audit.spec, audit.verification
-    lines = [f"# h2olut audit: {_md(Path(audit.source).name)}", "",
-             f"Audited by h2olut {__version__}: `{_md(Path(audit.source).name)}` (sha256 "
+    lines = [f"# h2olut audit: {md_escape(Path(audit.source).name)}", "",
+             f"Audited by h2olut {__version__}: `{md_escape(Path(audit.source).name)}` (sha256 "
              f"`{audit.sha256[:16]}…`)." + (f" Rerun with `{spec.command}`." if spec.command
                                           else ""),
              "", f"> {CAUTION}", ""]
-    lines += [f"- {_md(s)}" for s in summary_lines(audit)]
+    lines += [f"- {md_escape(s)}" for s in summary_lines(audit)]
     tol = "none given" if spec.tol_kind is None else _err_text(spec, spec.tol_value)
-    lines += [f"- tolerance: {_md(tol)}", f"- {_md(verdict_line(audit))}",
+    lines += [f"- tolerance: {md_escape(tol)}", f"- {md_escape(verdict_line(audit))}",
               f"- format floor (rounding of input and output alone): "
-              f"{_md(_err_text(spec, audit.floor))}",
+              f"{md_escape(_err_text(spec, audit.floor))}",
               f"- points: {v['counts'].get('directed', 0)} directed (ends, rows and their "
               f"neighbours, per-interval worst), {v['counts'].get('random', 0)} seeded random"
               + (f", every one of {v['counts']['exhaustive']} raw inputs"
@@ -2187,30 +2176,30 @@ def audit_report_markdown(audit, plot_name=None):
                         ": a sampled measurement, not a proof of a bound."), ""]
     lines += ["## Defects", ""]
     if audit.findings:
-        lines += [f"- {d['kind'].replace('_', ' ')}: {_md(d['text'])}" for d in audit.findings]
+        lines += [f"- {d['kind'].replace('_', ' ')}: {md_escape(d['text'])}" for d in audit.findings]
     else:
         lines.append("None found.")
     lines.append("")
     if audit.used:
         lines += ["## Where the firmware uses it", ""]
         if audit.used.get("note"):
-            lines.append(_md(audit.used["note"]))
+            lines.append(md_escape(audit.used["note"]))
         for s in audit.used["sides"]:
             lines.append(f"- {s['side']} the span: {_fmt(s['short_by'])} "
-                         f"{_md(spec.inputs[0].unit)} short; clamped "
-                         f"{_md(_err_text(spec, s['max_error_clamped']))}, extrapolated "
-                         f"{_md(_err_text(spec, s['max_error_extrapolated']))}")
+                         f"{md_escape(spec.inputs[0].unit)} short; clamped "
+                         f"{md_escape(_err_text(spec, s['max_error_clamped']))}, extrapolated "
+                         f"{md_escape(_err_text(spec, s['max_error_extrapolated']))}")
         lines.append("")
     lines += ["## Replacement", ""]
     r = audit.replacement
     if r:
-        lines += [_md(r["line"]), "", "```toml", r["spec_toml"].rstrip(), "```", ""]
+        lines += [md_escape(r["line"]), "", "```toml", r["spec_toml"].rstrip(), "```", ""]
     else:
         lines += ["None suggested.", ""]
     for n in audit.notes:
-        lines.append(f"- note: {_md(n)}")
+        lines.append(f"- note: {md_escape(n)}")
     if plot_name:
-        lines += ["", f"![error of {_md(audit.name)}]({plot_name})"]
+        lines += ["", f"![error of {md_escape(audit.name)}]({plot_name})"]
     lines.append("")
     return "\n".join(lines)
 

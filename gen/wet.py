@@ -19,6 +19,7 @@ a)``, ``verify_wet(wt, n, seed)``, ``wet_vector_points(wt)``; the views are in
 import hashlib
 import time
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
@@ -119,8 +120,29 @@ def reference(ts, p, a):
     return x, y
 
 
+class WetFunction:
+    """What verification asks of a wet-steam function: its value, status and run-time quality
+    at (p, a), from the run-time dict ``tab`` evaluated by the run-time module ``run``
+    (:mod:`gen.arith_wet` here; a generated module's own copy when auditing it)."""
+    run = arith_wet
+
+    @staticmethod
+    def _shape(y, p, a):
+        return y.reshape(np.broadcast(np.asarray(p), np.asarray(a)).shape)
+
+    def __call__(self, p, a, fused=False):
+        return self._shape(self.run.evaluate_wet(p, a, self.tab, fused), p, a)
+
+    def status(self, p, a):
+        return self._shape(self.run.status_wet(p, a, self.tab), p, a)
+
+    def quality(self, p, a):
+        """The run time's quality before clamping (format values)."""
+        return self._shape(self.run.quality_wet(p, a, self.tab)[3], p, a)
+
+
 @dataclass
-class WetTable:
+class WetTable(WetFunction):
     """A wet-steam function: spec, member tables (``gen.build.Table`` by role), verification."""
     spec: object
     combine: str
@@ -165,18 +187,9 @@ class WetTable:
             tab[role] = t.piecewise.runtime()
         return tab
 
-    def __call__(self, p, a, fused=False):
-        y = arith_wet.evaluate_wet(p, a, self.runtime(), fused)
-        return y.reshape(np.broadcast(np.asarray(p), np.asarray(a)).shape)
-
-    def status(self, p, a):
-        s = arith_wet.status_wet(p, a, self.runtime())
-        return s.reshape(np.broadcast(np.asarray(p), np.asarray(a)).shape)
-
-    def quality(self, p, a):
-        """The run time's quality before clamping (format values)."""
-        x = arith_wet.quality_wet(p, a, self.runtime())[3]
-        return x.reshape(np.broadcast(np.asarray(p), np.asarray(a)).shape)
+    @cached_property
+    def tab(self):
+        return self.runtime()
 
     def breakpoints(self):
         return np.unique(np.concatenate([t.piecewise.breakpoints()
