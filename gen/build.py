@@ -174,10 +174,22 @@ def format_floor(f, scale, lo, hi, fmt):
 
 
 def _first_upper_float(inp, x, fmt):
-    """The smallest input in ``fmt`` on which the core uses the region-3 equation."""
+    """The smallest input in ``fmt`` on which the core uses the region-3 equation (found by
+    bisection on the format's bit patterns around ``x``, the switch in the input's unit)."""
     ft = arith.FORMATS[fmt]
-    v = ft(x)
+    utype = np.uint32 if fmt == "float32" else np.uint64
     up = lambda a: bool(Q.on_upper_equation(inp.quantity, np.float64(a) * inp.scale + inp.offset))  # noqa: E731
+    lo, hi = ft(x * (1 - 1e-6)), ft(x * (1 + 1e-6))
+    if x > 0 and not up(lo) and up(hi):
+        a, b = int(np.array(lo, ft).view(utype)), int(np.array(hi, ft).view(utype))
+        while b - a > 1:
+            m = (a + b) // 2
+            if up(np.array(m, utype).view(ft)):
+                b = m
+            else:
+                a = m
+        return float(np.array(b, utype).view(ft))
+    v = ft(x)
     for _ in range(64):
         if up(v):
             break

@@ -123,7 +123,7 @@ SATURATION_RANGE = {"pressure": (P_SAT_MIN, P_SAT_MAX), "temperature": (K.T_MIN,
 
 #: lines where the core switches equations along saturation (a breakpoint goes there):
 #: 623.15 K, the region 1|3 and 2|3 split, and its saturation pressure (R7-97(2012) eq. 30)
-SATURATION_SWITCH = {"temperature": K.T_13, "pressure": 16.529164253e6}
+SATURATION_SWITCH = {"temperature": K.T_13, "pressure": _p_sat(K.T_13)}
 
 
 def on_upper_equation(name, si):

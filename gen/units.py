@@ -56,11 +56,6 @@ def to_si_map(unit, kind):
     return float(q1 - q0), float(q0)
 
 
-def difference_scale(unit, kind):
-    """SI size of one ``unit`` as a difference (1 degC of difference = 1 K)."""
-    return to_si_map(unit, kind)[0]
-
-
 def parse_quantity(text, kind):
     """Parse "10 bar" or "180 degC" into an SI value; a bare number is taken as SI."""
     s = str(text).strip()

@@ -123,15 +123,6 @@ def horner(coef, t):
     return y
 
 
-def horner_slope(coef, t):
-    """d/dt of highest-first ``coef`` at ``t``."""
-    d = coef.shape[1] - 1
-    if d == 0:
-        return np.zeros_like(t)
-    dc = coef[:, :-1] * np.arange(d, 0, -1)[None, :]
-    return horner(dc, t)
-
-
 def _check_points(ta, tb):
     """Interior check points (n, CHECK_POINTS) in local variables, clear of every node set."""
     m = CHECK_POINTS

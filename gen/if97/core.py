@@ -21,6 +21,7 @@ import numpy as np
 from . import region1, region2, region3, region4, region5, regions, transport
 from . import region3_backward as r3b
 from .constants import P_MAX, T_13, T_MAX, T_MAX_25, TC
+from .props import KEYS
 
 saturation_pressure = region4.saturation_pressure
 saturation_temperature = region4.saturation_temperature
@@ -36,13 +37,12 @@ P_13 = float(region4.saturation_pressure(T_13))
 
 
 def _merge(parts, shape):
-    """Combine {key: values-on-subset} dicts from several masks into full arrays."""
-    out = {}
+    """Combine {key: values-on-subset} dicts from several masks into full arrays of the
+    property keys (``props.KEYS``; NaN where no part has a value)."""
+    out = {k: np.full(shape, np.nan) for k in KEYS}
     for m, d in parts:
-        for k, v in d.items():
-            if k not in out:
-                out[k] = np.full(shape, np.nan)
-            out[k][m] = v
+        for k in KEYS:
+            out[k][m] = d[k]
     return out
 
 
@@ -65,10 +65,6 @@ def saturated_states(T):
         liq_parts.append((high, region3.props_rhoT(rl, t)))
         vap_parts.append((high, region3.props_rhoT(rv, t)))
     n = Tf.shape
-    if Tf.size == 0:
-        empty = {k: np.zeros(shape) for k in ("v", "rho", "u", "h", "s", "cp", "cv", "w",
-                                              "kappa", "drhodp")}
-        return empty, dict(empty)
     liq = {k: v.reshape(shape) for k, v in _merge(liq_parts, n).items()}
     vap = {k: v.reshape(shape) for k, v in _merge(vap_parts, n).items()}
     return liq, vap
@@ -89,13 +85,8 @@ def props_pT(p, T, phase=None, mask=False, transport=False):
             parts.append((m, fn(pf[m], Tf[m])))
     m3 = reg == 3
     if m3.any():
-        d = r3b.props_pT(pf[m3], Tf[m3], phase=phase)
-        d = {k: v for k, v in d.items() if k != "p"}
-        parts.append((m3, d))
+        parts.append((m3, r3b.props_pT(pf[m3], Tf[m3], phase=phase)))
     out = _merge(parts, pf.shape)
-    if not parts:
-        out = {k: np.full(pf.shape, np.nan) for k in ("v", "rho", "u", "h", "s", "cp", "cv", "w",
-                                                        "kappa", "drhodp")}
     if transport:
         out["mu"] = transport_viscosity(out["rho"], Tf)
         out["lambda"] = transport_conductivity(out["rho"], Tf, out["cp"], out["cv"],
@@ -110,11 +101,6 @@ def transport_viscosity(rho, T):
 
 def transport_conductivity(rho, T, cp, cv, drhodp):
     return transport.thermal_conductivity(rho, T, cp, cv, drhodp)
-
-
-def _h_at(p, T):
-    """Specific enthalpy at (p, T) by region, for boundary tests of the backward functions."""
-    return props_pT(p, T, mask=True)["h"]
 
 
 def _backward(p, y, key, mask):
