@@ -7,7 +7,7 @@ the input is positive). Each input is a float64 value; the emulated function see
 the target format, so input rounding is part of the measured error. A sampled maximum is a
 measurement, not a bound.
 
-Offers ``verification_points(pw, n, seed)``, ``verify_table(pw, f, scale, n, seed, monotone)``,
+Offers ``float_neighbours(b, fmt)``, ``verification_points(pw, n, seed)``, ``verify_table(pw, f, scale, n, seed, monotone)``,
 ``error_units(y, fy, scale)``.
 """
 
@@ -21,7 +21,8 @@ def error_units(y, fy, scale):
     return (np.asarray(y, dtype=np.float64) - fy) / scale(fy)
 
 
-def _neighbours(b, fmt):
+def float_neighbours(b, fmt):
+    """``b`` in the format with each value's two format neighbours (float64)."""
     ft = arith.FORMATS[fmt]
     b32 = np.asarray(b).astype(ft)
     return np.concatenate([b32, np.nextafter(b32, ft(-np.inf)), np.nextafter(b32, ft(np.inf))]
@@ -32,7 +33,7 @@ def verification_points(pw, n, seed, f=None, scale=None):
     """The verification inputs (float64, inside [lo, hi]) and a count of each kind."""
     lo, hi = float(pw.lo), float(pw.hi)
     b = pw.breakpoints()
-    directed = [np.array([lo, hi]), _neighbours(b, pw.fmt)]
+    directed = [np.array([lo, hi]), float_neighbours(b, pw.fmt)]
     worst = np.array([])
     if f is not None:
         # per segment, the grid point where the emulated error is largest, and its neighbours
@@ -42,7 +43,7 @@ def verification_points(pw, n, seed, f=None, scale=None):
         e = np.abs(error_units(pw(xx.ravel()), f(xx.ravel()), scale)).reshape(xx.shape)
         j = np.argmax(e, axis=1)
         worst = xx[np.arange(xx.shape[0]), j]
-        directed.append(_neighbours(worst, pw.fmt))
+        directed.append(float_neighbours(worst, pw.fmt))
     d = np.concatenate(directed)
     d = d[(d >= lo) & (d <= hi)]
     rng = np.random.default_rng(seed)

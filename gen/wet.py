@@ -25,6 +25,7 @@ import numpy as np
 
 from . import arith, arith_wet
 from . import quantities as Q
+from .verify import float_neighbours
 from .build import (ACCEPT, BuildError, build_helper_table, error_scale, estimated_ops,
                     format_floor)
 
@@ -208,13 +209,6 @@ def _pressures(lo, hi, n):
     return np.linspace(lo, hi, n)
 
 
-def _neighbours(b, fmt):
-    ft = arith.FORMATS[fmt]
-    b = np.asarray(b).astype(ft)
-    return np.concatenate([b, np.nextafter(b, ft(-np.inf)), np.nextafter(b, ft(np.inf))]
-                          ).astype(np.float64)
-
-
 def _dome(ts, p):
     """a'(p) and a''(p) of the core in the input's unit."""
     liq, vap = members_of(ts)[:2]
@@ -232,7 +226,7 @@ def verification_inputs(wt, n, seed):
     ft = arith.FORMATS[wt.fmt]
     rng = np.random.default_rng(seed)
     lo, hi = float(wt.p_lo), float(wt.p_hi)
-    b = _neighbours(np.concatenate([[lo, hi], wt.breakpoints()]), wt.fmt)
+    b = float_neighbours(np.concatenate([[lo, hi], wt.breakpoints()]), wt.fmt)
     b = np.unique(b[(b >= lo) & (b <= hi)])
     k = 8
     Pd = np.repeat(b, k)

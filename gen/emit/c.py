@@ -10,8 +10,8 @@ Offers ``table_view(t)``, ``render_c(spec, tables, base)`` -> {file: text},
 import numpy as np
 
 from .. import arith
-from .common import (CAUTION, bits_literal, c_comment, decimal, hex_literal, provenance,
-                     ref_literal, summary, table_kind, template_env)
+from .common import (CAUTION, bits_literal, c_comment, decimal, hex_lines, hex_literal,
+                     provenance, ref_literal, summary, table_kind, template_env)
 
 #: random points per table in the C test-vector program (besides the directed ones)
 RANDOM_VECTORS = 500
@@ -26,12 +26,6 @@ def _rows(coef, fmt, starts, unit):
         rows.append({"lits": lits, "note": f"segment {i}: from {starts[i]:.8g} {c_comment(unit)}",
                      "decs": ", ".join(decimal(v, fmt) for v in c)})
     return rows
-
-
-def _list(values, fmt, per_line=4):
-    lits = [hex_literal(v, fmt) for v in values]
-    lines = [", ".join(lits[i:i + per_line]) for i in range(0, len(lits), per_line)]
-    return lines
 
 
 def table_context(table):
@@ -77,8 +71,8 @@ def table_context(table):
             f" + c[{j}])*t" if j < pw.degree else f" + c[{j}]" for j in range(1, pw.degree + 1)),
     })
     if pw.layout == "free":
-        ctx["x_lines"] = _list(pw.x[:-1], fmt)
-        ctx["iw_lines"] = _list(pw.inv_w, fmt)
+        ctx["x_lines"] = hex_lines(pw.x[:-1], fmt)
+        ctx["iw_lines"] = hex_lines(pw.inv_w, fmt)
     elif pw.layout == "uniform":
         ctx["x0"] = hex_literal(arith.to_format(pw.x0, fmt), fmt)
         ctx["inv_h"] = hex_literal(arith.to_format(pw.inv_h, fmt), fmt)

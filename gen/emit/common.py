@@ -91,14 +91,22 @@ def provenance(spec):
             "spec_sha256": spec.sha256, "command": c_comment(spec.command or f"h2olut build {spec.source_name}")}
 
 
-def _g(v, digits=6):
-    return f"{v:.{digits}g}"
+def num_text(v, digits=6):
+    """A number for comments and prose: ``digits`` significant digits."""
+    return f"{float(v):.{digits}g}"
+
+
+
+def hex_lines(values, fmt, per_line=4):
+    """Hex literals of ``values`` in ``fmt``, ``per_line`` to a line, comma-separated."""
+    lits = [hex_literal(v, fmt) for v in values]
+    return [", ".join(lits[i:i + per_line]) for i in range(0, len(lits), per_line)]
 
 
 def tolerance_text(kind, value, unit):
     """'0.02 degC' or '0.1 % of the value' (a dimensionless unit is left out)."""
     sp = f" {unit}" if unit else ""
-    return f"{_g(value)}{sp}" if kind == "abs" else f"{_g(value * 100)} % of the value"
+    return f"{num_text(value)}{sp}" if kind == "abs" else f"{num_text(value * 100)} % of the value"
 
 
 def error_text(kind, e, unit):
@@ -159,13 +167,13 @@ def summary(table):
         "description": ts.description,
         "input": inp.quantity,
         "input_unit": inp.unit + gauge,
-        "range": f"{_g(inp.lo)} to {_g(inp.hi)} {inp.unit}{gauge}",
+        "range": f"{num_text(inp.lo)} to {num_text(inp.hi)} {inp.unit}{gauge}",
         "output_unit": ts.output_unit,
         "tolerance": tol,
         "max_error": err,
-        "max_error_at": f"{_g(v['at'], 8)} {inp.unit}",
+        "max_error_at": f"{num_text(v['at'], 8)} {inp.unit}",
         "points": v["points"],
-        "verified": (f"{err} at {_g(v['at'], 8)} {inp.unit}, the largest of {v['points']} sampled "
+        "verified": (f"{err} at {num_text(v['at'], 8)} {inp.unit}, the largest of {v['points']} sampled "
                      f"points (ends, breakpoints and neighbours, per-segment worst, seeded random) "
                      f"evaluated in {pw.fmt} emulation against the IF97 core; a sampled maximum, "
                      f"not a bound"),

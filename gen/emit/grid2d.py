@@ -8,16 +8,8 @@ import numpy as np
 
 from .. import arith
 from ..fit.grid2d import INPUT_WORDS, describe_domain
-from .common import c_comment, decimal, error_text, hex_literal, tolerance_text
-
-
-def _g(v):
-    return f"{float(v):.6g}"
-
-
-def _lits(values, fmt, per_line=4):
-    lits = [hex_literal(v, fmt) for v in values]
-    return [", ".join(lits[i:i + per_line]) for i in range(0, len(lits), per_line)]
+from .common import (c_comment, decimal, error_text, hex_lines, hex_literal, num_text,
+                     tolerance_text)
 
 
 def _lit(v, fmt):
@@ -40,12 +32,12 @@ def _axis_context(ax, method, fmt, unit):
         d["inv_h"] = _lit(ax.inv_h, fmt)
     elif method == "bilinear":
         d["nlines"] = ax.n - 1
-        d["lines"] = _lits(np.asarray(ax.lines)[:-1], fmt)
-        d["iw"] = _lits(ax.iw, fmt)
+        d["lines"] = hex_lines(np.asarray(ax.lines)[:-1], fmt)
+        d["iw"] = hex_lines(ax.iw, fmt)
     else:
         d["nlines"] = ax.n
-        d["lines"] = _lits(ax.lines, fmt)
-        d["den"] = [", ".join(_lits(r, fmt, 4)) for r in np.asarray(ax.den)]
+        d["lines"] = hex_lines(ax.lines, fmt)
+        d["den"] = [", ".join(hex_lines(r, fmt, 4)) for r in np.asarray(ax.den)]
     return d
 
 
@@ -85,11 +77,11 @@ def grid_summary(gt):
         "domain": describe_domain(dom),
         "tolerance": tol,
         "max_error": err(v["max_error"]),
-        "max_error_at": f"p = {_g(at[0])} {dom.p_unit}, {INPUT_WORDS[dom.second]} = {_g(at[1])} "
+        "max_error_at": f"p = {num_text(at[0])} {dom.p_unit}, {INPUT_WORDS[dom.second]} = {num_text(at[1])} "
                         f"{dom.v_unit}",
         "points": v["points"],
-        "verified": (f"{err(v['max_error'])} at p = {_g(at[0])} {dom.p_unit}, "
-                     f"{INPUT_WORDS[dom.second]} = {_g(at[1])} {dom.v_unit}, the largest of "
+        "verified": (f"{err(v['max_error'])} at p = {num_text(at[0])} {dom.p_unit}, "
+                     f"{INPUT_WORDS[dom.second]} = {num_text(at[1])} {dom.v_unit}, the largest of "
                      f"{v['points']} sampled points (edges and corner neighbours, grid lines "
                      f"and neighbours, cell interiors, seeded random; none a node or check point "
                      f"of the fit) of the whole function in {g.fmt} emulation against the IF97 "
@@ -130,7 +122,7 @@ def grid_c_context(gt, function, name=None):
     for i in range(g.nx):
         z = np.asarray(g.z)[i]
         decs = [decimal(v, fmt) for v in z]
-        rows.append({"lines": _lits(z, fmt, 4),
+        rows.append({"lines": hex_lines(z, fmt, 4),
                      "decs": [", ".join(decs[k:k + 4]) for k in range(0, len(decs), 4)],
                      "note": f"p = {decimal(pl[i], fmt)} {c_comment(dom.p_unit)}"})
     ctx = {

@@ -5,11 +5,7 @@ Offers ``wet_summary(wt)``, ``wet_c_context(wt)``.
 """
 
 from .. import arith
-from .common import c_comment, decimal, error_text, hex_literal, tolerance_text
-
-
-def _g(v, n=6):
-    return f"{float(v):.{n}g}"
+from .common import c_comment, decimal, error_text, hex_literal, num_text, tolerance_text
 
 
 def _second_word(ts):
@@ -41,14 +37,14 @@ def wet_summary(wt):
         "p_unit": pin.unit,
         "second": _second_word(ts),
         "v_unit": ain.unit,
-        "domain": (f"wet steam, pressure {_g(pin.lo)} to {_g(pin.hi)} {pin.unit}, "
+        "domain": (f"wet steam, pressure {num_text(pin.lo)} to {num_text(pin.hi)} {pin.unit}, "
                    f"{_second_word(ts)} between saturated liquid and saturated vapour"),
         "tolerance": tol,
         "max_error": err(v["max_error"]),
-        "max_error_at": f"p = {_g(at[0])} {pin.unit}, {_second_word(ts)} = {_g(at[1])} {ain.unit}",
+        "max_error_at": f"p = {num_text(at[0])} {pin.unit}, {_second_word(ts)} = {num_text(at[1])} {ain.unit}",
         "points": v["points"],
-        "verified": (f"{err(v['max_error'])} at p = {_g(at[0])} {pin.unit}, "
-                     f"{_second_word(ts)} = {_g(at[1])} {ain.unit}, the largest of "
+        "verified": (f"{err(v['max_error'])} at p = {num_text(at[0])} {pin.unit}, "
+                     f"{_second_word(ts)} = {num_text(at[1])} {ain.unit}, the largest of "
                      f"{v['points']} sampled points inside the dome (member breakpoints and "
                      f"neighbours, dome edges, seeded random) of the whole function in "
                      f"{wt.fmt} emulation against the IF97 core; a sampled maximum, not a bound"),

@@ -53,11 +53,13 @@ import hashlib
 import math
 import time
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
 from .. import arith, arith2d
 from .. import quantities as Q
+from ..verify import float_neighbours
 from .piecewise import Piecewise1D
 
 PHASES = ("vapor", "liquid", "supercritical")
@@ -454,40 +456,38 @@ def check_domain(dom, tol_kind=None, tol=None):
                 f"{CRITICAL_MARGIN * 100:g} % away in pressure or temperature")
     # region boundaries: where the core steps; for a second input other than temperature the
     # boundary temperature is mapped to that input through the core's forward value
-    if dom.second in ("temperature", "specific_enthalpy", "specific_entropy"):
-        key = {"specific_enthalpy": "specific_enthalpy", "specific_entropy": "specific_entropy"}
-        side_phase = {"vapor": "vapor", "liquid": "liquid"}.get(dom.phase)
-        for name, (b_lo, b_hi), tb in _boundaries():
-            lo, hi = max(p_lo_si, b_lo), min(p_hi_si, b_hi)
-            if lo >= hi:
-                continue
-            psi = np.linspace(lo, hi, 129)
-            p_user = pu(psi)
-            if dom.second == "temperature":
-                tv = dom.v_user(tb(psi))
-            else:
-                tv = dom.v_user(np.asarray(Q.evaluate(key[dom.second], mask=True,
-                                                      phase=side_phase, pressure=psi,
-                                                      temperature=tb(psi)), dtype=np.float64))
-            near, far = dom.limits(p_user)
-            inside = (tv - np.minimum(near, far) > 0) & (np.maximum(near, far) - tv > 0)
-            if not inside.any():
-                continue
-            p_in, t_in = p_user[inside], tv[inside]
-            dv = np.abs(t_in) * 1e-9 + 1e-9
-            below = dom.core(p_in, t_in - dv)
-            above = dom.core(p_in, t_in + dv)
-            step = np.abs(above - below)
-            rel = step / (np.abs(below) if tol_kind == "rel" else 1.0)
-            k = int(np.argmax(rel))
-            if tol is not None and rel[k] > STEP_SHARE * tol:
-                raise DomainError(
-                    f"the range crosses {name} near (p = {_pt(dom, p_in[k])}, "
-                    f"{_LETTER[dom.second]} = {_vt(dom, t_in[k])}), where the core's {dom.quantity.replace('_', ' ')} "
-                    f"steps by {step[k]:.3g} {dom.out_unit} ({rel[k] / tol:.2g} times the "
-                    f"tolerance); split the range there")
-            notes.append(f"crosses {name}; the core steps by at most {step[k]:.3g} "
-                         f"{dom.out_unit} there, which the grid interpolates across")
+    side_phase = dom.phase if dom.phase in ("vapor", "liquid") else None
+    for name, (b_lo, b_hi), tb in _boundaries():
+        lo, hi = max(p_lo_si, b_lo), min(p_hi_si, b_hi)
+        if lo >= hi:
+            continue
+        psi = np.linspace(lo, hi, 129)
+        p_user = pu(psi)
+        if dom.second == "temperature":
+            tv = dom.v_user(tb(psi))
+        else:
+            tv = dom.v_user(np.asarray(Q.evaluate(dom.second, mask=True, phase=side_phase,
+                                                  pressure=psi, temperature=tb(psi)),
+                                       dtype=np.float64))
+        near, far = dom.limits(p_user)
+        inside = (tv - np.minimum(near, far) > 0) & (np.maximum(near, far) - tv > 0)
+        if not inside.any():
+            continue
+        p_in, t_in = p_user[inside], tv[inside]
+        dv = np.abs(t_in) * 1e-9 + 1e-9
+        below = dom.core(p_in, t_in - dv)
+        above = dom.core(p_in, t_in + dv)
+        step = np.abs(above - below)
+        rel = step / (np.abs(below) if tol_kind == "rel" else 1.0)
+        k = int(np.argmax(rel))
+        if tol is not None and rel[k] > STEP_SHARE * tol:
+            raise DomainError(
+                f"the range crosses {name} near (p = {_pt(dom, p_in[k])}, "
+                f"{_LETTER[dom.second]} = {_vt(dom, t_in[k])}), where the core's "
+                f"{dom.quantity.replace('_', ' ')} steps by {step[k]:.3g} {dom.out_unit} ({rel[k] / tol:.2g} times the "
+                f"tolerance); split the range there")
+        notes.append(f"crosses {name}; the core steps by at most {step[k]:.3g} "
+                     f"{dom.out_unit} there, which the grid interpolates across")
     return notes
 
 
@@ -526,11 +526,6 @@ def saturation_helper(dom, fmt, tol_abs, goal="smallest", verify_points=20_000, 
     except BuildError as e:
         raise DomainError(f"the saturation helper ({dom.sat_quantity} within "
                           f"{tol_abs:.3g} {dom.v_unit}) cannot be built: {e}") from None
-
-
-def sat_runtime(pw):
-    """Keyword arguments of :func:`gen.arith.evaluate` for a one-input table, in its format."""
-    return pw.runtime()
 
 
 # ---------------------------------------------------------------------------------------------
@@ -824,14 +819,6 @@ class Grid2D:
         """Bytes of every table of this function: grid, bin tables and helper."""
         return self.grid_bytes + (self.helper.storage_bytes if self.helper else 0)
 
-    @property
-    def p_lo(self):
-        return self.x.lo
-
-    @property
-    def p_hi(self):
-        return self.x.hi
-
     def runtime(self):
         """The plain dict :mod:`gen.arith2d` evaluates (all numbers in the format)."""
         ft = arith.FORMATS[self.fmt]
@@ -842,14 +829,18 @@ class Grid2D:
                 "y_lo": ft(self.y.lo), "y_hi": ft(self.y.hi),
                 "x": self.x.runtime(self.fmt), "y": self.y.runtime(self.fmt),
                 "z": np.asarray(self.z).astype(ft),
-                "sat": None if self.helper is None else sat_runtime(self.helper)}
+                "sat": None if self.helper is None else self.helper.runtime()}
+
+    @cached_property
+    def _rt(self):
+        return self.runtime()
 
     def __call__(self, p, v, fused=False):
         """The emitted function, emulated in the target arithmetic (``fused``: with FMA)."""
-        return arith2d.evaluate2d(p, v, self.runtime(), fused)
+        return arith2d.evaluate2d(p, v, self._rt, fused)
 
     def status(self, p, v):
-        return arith2d.status2d(p, v, self.runtime())
+        return arith2d.status2d(p, v, self._rt)
 
 
 def estimated_ops(g):
@@ -929,18 +920,16 @@ class Problem:
         self.p_lo, self.p_hi = lo, hi
         self.helper = helper
         self.helper_pw = helper.piecewise if helper is not None else None
-        self.sat_rt = sat_runtime(self.helper_pw) if helper is not None else None
+        self.sat_rt = self.helper_pw.runtime() if helper is not None else None
         self.side = dom.side
         self.key = repr((dom, tol_kind, tol, fmt, policy))
+        from ..build import error_scale
+        self.scale = error_scale(tol_kind)
         self._cache = {}
 
     # maps ------------------------------------------------------------------------------------
     def f(self, p, v):
         return self.dom.core(p, v)
-
-    def scale(self, fy):
-        fy = np.asarray(fy, dtype=np.float64)
-        return np.abs(fy) if self.tol_kind == "rel" else np.ones_like(fy)
 
     def coords(self):
         """Second coordinates worth trying: ``raw`` where the limits are absolute, or where
@@ -1641,13 +1630,6 @@ def fit_grid(prob, method, layouts=("free", "free"), coord=None, verify_points=1
 # dense verification
 
 
-def _neighbours(a, fmt):
-    ft = arith.FORMATS[fmt]
-    a32 = np.asarray(a).astype(ft)
-    return np.concatenate([a32, np.nextafter(a32, ft(-np.inf)),
-                           np.nextafter(a32, ft(np.inf))]).astype(np.float64)
-
-
 def _just_inside(a, b, fmt):
     """The format value nearest ``a`` strictly between ``a`` and ``b`` (elementwise)."""
     ft = arith.FORMATS[fmt]
@@ -1764,13 +1746,13 @@ def _new_verification_set(g, prob, n, seed):
     dropped += int(np.sum(~ke))
     pe, ve, te = pe[ke], ve[ke], te[ke]
     m = 8
-    xl = _neighbours(g.x.lines, fmt)
+    xl = float_neighbours(g.x.lines, fmt)
     xl = xl[(xl >= prob.p_lo) & (xl <= prob.p_hi)]
     Px = np.repeat(xl, m)
     near, far = d.limits(Px)
     Vx = near + rng.uniform(0.0, 1.0, Px.size) * (far - near)
     y_lo, y_hi = prob.y_range(coord)
-    yl = _neighbours(g.y.lines, fmt)
+    yl = float_neighbours(g.y.lines, fmt)
     yl = yl[(yl >= y_lo) & (yl <= y_hi)]
     Yy = np.repeat(yl, m)
     Py = rng.uniform(prob.p_lo, prob.p_hi, Yy.size)
@@ -2039,9 +2021,9 @@ def build_grid(dom, tol_kind, tol, fmt="float32", policy="clamp", goal="smallest
                      f"output through a slope of up to {prob0.slope_v():.3g} per {dom.v_unit} "
                      f"and is part of the verified total")
     prob = Problem(dom, tol_kind, tol, fmt, policy, helper)
-    for k, v in prob0._cache.items():
-        if k[0] in ("ref", "curv", "check_inputs") or k in ("floor", "slope_v"):
-            prob._cache[k] = v
+    for k in ("floor", "slope_v"):          # all that prob0 has computed
+        if k in prob0._cache:
+            prob._cache[k] = prob0._cache[k]
     rows, grids = [], []
     for coord in (coords or prob.coords()):
         for method, layouts in candidates:
