@@ -34,6 +34,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .fit.grid2d import away_from_saturation, partials  # noqa: F401  (partials: offered here)
+
 #: the largest table-error / sensor-uncertainty ratio that is not flagged (common practice)
 RATIO_LIMIT = 0.25
 
@@ -190,23 +192,6 @@ def budget(table, f, x=None):
     return compare(ts.sensor, ts.inputs[0].unit, x, err, slope(ts, x), fx, ts.tol_kind)
 
 
-def partials(f, P, V, p_dir, v_dir, hp, hv):
-    """(df/dp, df/dv) of ``f(P, V)`` by one-sided second-order differences, stepping ``hp``
-    in the direction ``p_dir`` (+1 or -1; 0 for a central difference) and ``hv`` in
-    ``v_dir``; where a step leaves the core's domain (NaN), the other direction is used."""
-
-    def one(g, h, d):
-        if d == 0:
-            return (g(h) - g(-h)) / (2 * h)
-        fwd = (-3 * g(0.0) + 4 * g(d * h) - g(2 * d * h)) / (2 * d * h)
-        back = (-3 * g(0.0) + 4 * g(-d * h) - g(-2 * d * h)) / (-2 * d * h)
-        return np.where(np.isfinite(fwd), fwd, back)
-
-    fp = one(lambda dp: f(P + dp, V), hp, p_dir)
-    fv = one(lambda dv: f(P, V + dv), hv, v_dir)
-    return fp, fv
-
-
 def compare_2d(sensors, units, names, P, V, error, fp, fv, fx, kind):
     """The budget record of a two-input table: root-sum-square of the sensors'
     contributions beside the table's own |error| at the same points."""
@@ -245,10 +230,9 @@ def budget_2d(table, n=BUDGET_POINTS_2D, seed=20261202):
         a, b = dom.limits(P)
         V = a + rng.uniform(0.0, 1.0, n) * (b - a)
         f, y = dom.core, g(P, V)
-        side = dom.side
-        p_dir, v_dir = -side, side          # away from saturation
         hp = 1e-7 * (dom.p_hi - dom.p_lo)
         hv = 1e-7 * float(np.max(np.abs(b - a)))
+        p_dir, v_dir = away_from_saturation(dom, P, V, hp)
         units = (dom.p_unit, dom.v_unit)
     else:
         from .wet import _dome, reference

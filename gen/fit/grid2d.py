@@ -491,6 +491,32 @@ def check_domain(dom, tol_kind=None, tol=None):
     return notes
 
 
+def away_from_saturation(dom, P, V, dp):
+    """Step directions (pressure, second input) at (P, V) that move away from the saturation
+    line: the second input away from its side, pressure the way that moves S(p) away from v
+    (h''(p) is not monotone); 0 (a central difference) on a supercritical table."""
+    if not dom.side:
+        return 0.0, 0.0
+    up = dom.side * (V - dom.sat(P + dp)) >= dom.side * (V - dom.sat(P - dp))
+    return np.where(up, 1.0, -1.0), float(dom.side)
+
+
+def partials(f, P, V, p_dir, v_dir, hp, hv):
+    """(df/dp, df/dv) of ``f(P, V)`` by second-order differences: one-sided, stepping ``hp``
+    in the direction ``p_dir`` (+1 or -1, or an array of them) and ``hv`` in ``v_dir``, or
+    central where the direction is 0; where a one-sided step leaves the core's domain (NaN),
+    the other direction is used. A point on the saturation line itself has only one side."""
+
+    def one(g, h, d):
+        if np.all(np.asarray(d) == 0):
+            return (g(h) - g(-h)) / (2 * h)
+        fwd = (-3.0 * g(0.0) + 4.0 * g(d * h) - g(2.0 * d * h)) / (2.0 * d * h)
+        back = (-3.0 * g(0.0) + 4.0 * g(-d * h) - g(-2.0 * d * h)) / (-2.0 * d * h)
+        return np.where(np.isfinite(fwd), fwd, back)
+
+    return one(lambda k: f(P + k, V), hp, p_dir), one(lambda k: f(P, V + k), hv, v_dir)
+
+
 def domain_grid(dom, n_p, n_v, p_log=None):
     """(p, v) flattened: ``n_p`` pressures (log-spaced where the range spans over 4x) by
     ``n_v`` values from the near to the far limit at each, ends included; exact, user units."""
@@ -1197,27 +1223,12 @@ class Problem:
         return self._cache[key]
 
     def slopes(self, P, V):
-        """(|df/dp|, |df/dv|) at domain points (P, V) by second-order differences that never
-        step across saturation: one-sided away from the line on a vapour or liquid table
-        (a point on the line itself has only one side), central on a supercritical one."""
-        dom = self.dom
-        near, far = dom.limits(P)
+        """(|df/dp|, |df/dv|) at domain points (P, V), by :func:`partials` stepping away
+        from saturation (:func:`away_from_saturation`)."""
+        near, far = self.dom.limits(P)
         dp = 1e-6 * np.abs(P) + 1e-12
         dv = 1e-4 * np.abs(far - near)
-        if not dom.side:
-            fp = (self.f(P + dp, V) - self.f(P - dp, V)) / (2 * dp)
-            fv = (self.f(P, V + dv) - self.f(P, V - dv)) / (2 * dv)
-            return np.abs(fp), np.abs(fv)
-        # the pressure step that moves saturation away from v
-        up = dom.side * (V - dom.sat(P + dp)) >= dom.side * (V - dom.sat(P - dp))
-        sp = np.where(up, 1.0, -1.0)
-        sv = float(dom.side)
-
-        def one_sided(g, h, d):
-            return (-3.0 * g(0.0) + 4.0 * g(d * h) - g(2.0 * d * h)) / (2.0 * d * h)
-
-        fp = one_sided(lambda k: self.f(P + k, V), dp, sp)
-        fv = one_sided(lambda k: self.f(P, V + k), dv, sv)
+        fp, fv = partials(self.f, P, V, *away_from_saturation(self.dom, P, V, dp), dp, dv)
         return np.abs(fp), np.abs(fv)
 
     def slope_v(self):
