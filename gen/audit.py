@@ -87,7 +87,8 @@ from . import __version__
 from . import quantities as Q
 from . import units as U
 from .build import core_function, error_scale, format_floor
-from .report import md_escape
+from .emit.common import error_text
+from .report import md_escape, verification_block
 from .verify import verify_table
 from .wet import WetFunction
 
@@ -1608,21 +1609,22 @@ def _audit_2d(source, name, sha, spec, grid, cells, seed):
     out2 = outlier.reshape(zv.shape)
     findings = list(node)
     qtext = Q.CATALOGUE[spec.quantity].text
-    # order along each line of the grid where the core is monotone along it
+    # order along each line of the grid where the core is monotone along it; the core along
+    # every line of both directions in two evaluations
+    xb = np.linspace(B[0], B[-1], 8 * B.size)
+    xa = np.linspace(A[0], A[-1], 8 * A.size)
+    along = {1: f(A[:, None], xb[None, :]), 0: f(xa[None, :], B[:, None])}
     for axis in (1, 0):
         lines = zv.shape[0] if axis == 1 else zv.shape[1]
         for L in range(lines):
+            mono = _monotone(along[axis][L])
             if axis == 1:
                 vals, tr, rr = zv[L], true[L], res[L]
                 sub = Cells(cells.text[L], cells.line[L], cells.column[L])
-                xs = np.linspace(B[0], B[-1], 8 * B.size)
-                mono = _monotone(f(np.full(xs.size, A[L]), xs))
                 what = f"{qtext} along {n1.quantity} at {n0.quantity} {_fmt(A[L])} {n0.unit}"
             else:
                 vals, tr, rr = zv[:, L], true[:, L], res[:, L]
                 sub = Cells(cells.text[:, L], cells.line[:, L], cells.column[:, L])
-                xs = np.linspace(A[0], A[-1], 8 * A.size)
-                mono = _monotone(f(xs, np.full(xs.size, B[L])))
                 what = f"{qtext} along {n0.quantity} at {n1.quantity} {_fmt(B[L])} {n1.unit}"
             fnd, _ = _order_defects(vals, tr, rr, crit, sub, mono, what,
                                     outlier=out2[L] if axis == 1 else out2[:, L])
@@ -1637,8 +1639,9 @@ def _audit_2d(source, name, sha, spec, grid, cells, seed):
     if grid.integer:
         notes.append("Measured at raw inputs; the rounding of real inputs to raw ones is not "
                      "counted.")
-    notes.append("h2olut builds one-input tables in this version, so no replacement is "
-                 "suggested for a grid.")
+    notes.append("No replacement is suggested for a grid in this version: a generated "
+                 "two-input table is gridded on one side of saturation, so the audited box "
+                 "would first have to be split by phase.")
     return Audit(source=source, name=name, sha256=sha, spec=spec, table=grid, cells=cells,
                  verification=v, monotone=0, floor=floor, findings=findings, notes=notes,
                  cell_max=cell_max)
@@ -1917,36 +1920,54 @@ def audit_generated(report_path, module_path=None):
         if kind_of == "wet_steam":
             out.append(_reverify_wet(mod, rec, report_path))
             continue
+        b = _record_basics(rec, report_path)
         try:
-            kind, tol = next(iter(rec["tolerance"].items()))
-            inp = rec["inputs"][0]
-            okind = Q.CATALOGUE[rec["quantity"]].kind
-            sc, off = U.to_si_map(inp["unit"], Q.INPUT_KIND[inp["quantity"]])
-            osc, ooff = U.to_si_map(rec["output"]["unit"], okind)
-            ver = rec["verification"]
-            seed, npts = int(ver["seed"]), int(rec["verification_points"])
             brk = rec["method"]["breakpoints"]
-        except (KeyError, TypeError, StopIteration, AttributeError, U.UnitError):
-            raise AuditError(f"{report_path}:1:1: table {rec.get('name')!r} lacks what a "
-                             f"re-verification needs (tolerance, inputs, units, seed, "
-                             f"breakpoints)") from None
-        atm = inp.get("atmosphere_pa")
-        ai = AuditInput(inp["quantity"], inp["unit"], sc, off + (atm or 0.0), atm)
-        spec = AuditSpec(quantity=rec["quantity"], inputs=(ai,),
-                         output_unit=rec["output"]["unit"], out_scale=osc, out_offset=ooff,
-                         tol_kind=kind, tol_value=tol)
+        except (KeyError, TypeError):
+            raise AuditError(_lacks(rec, report_path)) from None
+        ai = b["inputs"][0]
+        spec = AuditSpec(quantity=rec["quantity"], inputs=(ai,), output_unit=b["out_unit"],
+                         out_scale=b["out_scale"], out_offset=b["out_offset"],
+                         tol_kind=b["kind"], tol_value=b["tol"])
         g = GeneratedFunction(mod, fn, brk)
         steps = _upper_switches(rec["quantity"], ai, g.breakpoints(), g.fmt)
-        v = verify_table(g, core_function(spec), error_scale(kind), npts, seed,
-                         int(ver.get("monotone", 0)), steps)
-        reported = rec["max_error"][kind]
-        same = v["max_error"] == reported and [v["at"]] == rec.get("max_error_at")
-        out.append({"name": rec["name"], "function": fn, "kind": kind, "tolerance": tol,
-                    "reported": reported, "reported_at": rec.get("max_error_at"),
-                    "measured": v["max_error"], "measured_at": [v["at"]],
-                    "points": v["points"], "same": bool(same),
-                    "within": bool(v["max_error"] <= tol), "verification": v})
+        v = verify_table(g, core_function(spec), error_scale(b["kind"]), b["points"],
+                         b["seed"], int(rec["verification"].get("monotone", 0)), steps)
+        out.append(_comparison(rec, b, v, [v["at"]]))
     return out
+
+
+def _lacks(rec, report_path):
+    return (f"{report_path}:1:1: table {rec.get('name')!r} lacks what a re-verification needs "
+            f"(tolerance, inputs, units, seed, breakpoints)")
+
+
+def _record_basics(rec, report_path):
+    """What a re-verification reads from a report record: tolerance, inputs (as
+    :class:`AuditInput`, gauge reference included), output unit map, seed and point count."""
+    try:
+        kind, tol = next(iter(rec["tolerance"].items()))
+        inputs = []
+        for inp in rec["inputs"]:
+            sc, off = U.to_si_map(inp["unit"], Q.INPUT_KIND[inp["quantity"]])
+            atm = inp.get("atmosphere_pa")
+            inputs.append(AuditInput(inp["quantity"], inp["unit"], sc, off + (atm or 0.0), atm))
+        osc, ooff = U.to_si_map(rec["output"]["unit"], Q.CATALOGUE[rec["quantity"]].kind)
+        return {"kind": kind, "tol": tol, "inputs": inputs, "out_unit": rec["output"]["unit"],
+                "out_scale": osc, "out_offset": ooff, "seed": int(rec["verification"]["seed"]),
+                "points": int(rec["verification_points"])}
+    except (KeyError, TypeError, StopIteration, AttributeError, U.UnitError):
+        raise AuditError(_lacks(rec, report_path)) from None
+
+
+def _comparison(rec, b, v, at):
+    """The re-verification's result beside the report's: equal to the bit, and within."""
+    reported = rec["max_error"][b["kind"]]
+    same = v["max_error"] == reported and at == rec.get("max_error_at")
+    return {"name": rec["name"], "function": rec["function"], "kind": b["kind"],
+            "tolerance": b["tol"], "reported": reported, "reported_at": rec.get("max_error_at"),
+            "measured": v["max_error"], "measured_at": at, "points": v["points"],
+            "same": bool(same), "within": bool(v["max_error"] <= b["tol"]), "verification": v}
 
 
 class GeneratedWet(WetFunction):
@@ -1972,39 +1993,23 @@ def _reverify_wet(mod, rec, report_path):
     """Re-verify one wet-steam record on its seed and point count (see audit_generated)."""
     from .spec import InputSpec, TableSpec
     from .wet import verify_wet
+    b = _record_basics(rec, report_path)
     try:
-        kind, tol = next(iter(rec["tolerance"].items()))
-        maps = []
-        for inp in rec["inputs"]:
-            sc, off = U.to_si_map(inp["unit"], Q.INPUT_KIND[inp["quantity"]])
-            atm = inp.get("atmosphere_pa")
-            maps.append(InputSpec(quantity=inp["quantity"], unit=inp["unit"], lo=inp["min"],
-                                  hi=inp["max"], scale=sc, offset=off + (atm or 0.0),
-                                  atmosphere=atm))
-        okind = Q.CATALOGUE[rec["quantity"]].kind
-        osc, ooff = U.to_si_map(rec["output"]["unit"], okind)
-        ver = rec["verification"]
-        seed, npts = int(ver["seed"]), int(rec["verification_points"])
-        brk = [b for m in rec["method"]["tables"] for b in m["method"]["breakpoints"]]
-    except (KeyError, TypeError, StopIteration, AttributeError, U.UnitError):
-        raise AuditError(f"{report_path}:1:1: table {rec.get('name')!r} lacks what a "
-                         f"re-verification needs (tolerance, inputs, units, seed, "
-                         f"breakpoints)") from None
+        brk = [x for m in rec["method"]["tables"] for x in m["method"]["breakpoints"]]
+        inputs = tuple(InputSpec(quantity=i.quantity, unit=i.unit, lo=r["min"], hi=r["max"],
+                                 scale=i.scale, offset=i.offset, atmosphere=i.atmosphere)
+                       for i, r in zip(b["inputs"], rec["inputs"]))
+        policy, goal = rec["method"]["out_of_range"], rec["method"].get("goal", "smallest")
+    except (KeyError, TypeError):
+        raise AuditError(_lacks(rec, report_path)) from None
     ts = TableSpec(name=rec["name"], function=rec["function"], quantity=rec["quantity"],
-                   description="", inputs=tuple(maps), output_unit=rec["output"]["unit"],
-                   out_scale=osc, out_offset=ooff, tol_kind=kind, tol_value=tol,
-                   arithmetic=rec["arithmetic"], policy=rec["method"]["out_of_range"],
-                   goal=rec["method"].get("goal", "smallest"), verify_points=npts,
-                   phase="wet")
-    g = GeneratedWet(mod, rec["function"], ts, np.unique(brk))
-    v = verify_wet(g, npts, seed)
-    at = [float(v["at"][0]), float(v["at"][1])]
-    reported = rec["max_error"][kind]
-    same = v["max_error"] == reported and at == rec.get("max_error_at")
-    return {"name": rec["name"], "function": rec["function"], "kind": kind, "tolerance": tol,
-            "reported": reported, "reported_at": rec.get("max_error_at"),
-            "measured": v["max_error"], "measured_at": at, "points": v["points"],
-            "same": bool(same), "within": bool(v["max_error"] <= tol), "verification": v}
+                   description="", inputs=inputs, output_unit=b["out_unit"],
+                   out_scale=b["out_scale"], out_offset=b["out_offset"], tol_kind=b["kind"],
+                   tol_value=b["tol"], arithmetic=rec["arithmetic"], policy=policy, goal=goal,
+                   verify_points=b["points"], phase="wet")
+    v = verify_wet(GeneratedWet(mod, rec["function"], ts, np.unique(brk)), b["points"],
+                   b["seed"])
+    return _comparison(rec, b, v, [float(v["at"][0]), float(v["at"][1])])
 
 
 # ------------------------------------------------------------------------------------------
@@ -2064,18 +2069,10 @@ def audit_record(audit):
         "max_error": {kind: v["max_error"]},
         "max_error_at": v["at"] if two else [v["at"]],
         "verification_points": v["points"],
-        "verification": {
-            "method": "exhaustive" if exhaustive else "sampled",
-            "reference": "h2olut IF97 core (float64)",
-            "counts": v["counts"],
-            "seed": v["seed"],
-            "rms_error": v["rms_error"],
-            "max_error_with_fma": v.get("max_error_fused"),
-            "max_breakpoint_step": v.get("max_breakpoint_step", 0.0),
-            "monotone": audit.monotone,
-            "monotone_reversals": v.get("monotone_reversals"),
-            "format_floor": audit.floor,
-        },
+        "verification": dict(verification_block(
+            v, audit.floor, max_breakpoint_step=v.get("max_breakpoint_step", 0.0),
+            monotone=audit.monotone, monotone_reversals=v.get("monotone_reversals")),
+            method="exhaustive" if exhaustive else "sampled"),
         "method": method,
         "within_tolerance": audit.within,
         "defects": [{k: val for k, val in d.items()} for d in audit.findings],
@@ -2105,9 +2102,7 @@ def audit_report_json(audit):
 
 
 def _err_text(spec, e):
-    if spec.error_kind == "rel":
-        return f"{e * 100:.3g} %"
-    return f"{e:.3g} {spec.output_unit}"
+    return error_text(spec.error_kind, e, spec.output_unit)
 
 
 def _at_text(audit):

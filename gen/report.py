@@ -30,7 +30,7 @@ def table_record(table):
                       **({"atmosphere_pa": inp.atmosphere} if inp.atmosphere else {})}],
                 pw.fmt, pw.storage_bytes, v, [v["at"]])
     rec.update({
-        "verification": _verification(
+        "verification": verification_block(
             v, table.floor, max_breakpoint_step=v["max_breakpoint_step"],
             monotone=table.monotone, monotone_reversals=v.get("monotone_reversals")),
         "method": {
@@ -69,7 +69,7 @@ def _head(ts, inputs, fmt, storage, v, at):
     }
 
 
-def _verification(v, floor, **extra):
+def verification_block(v, floor, **extra):
     """The ``verification`` block: how the maximum error was measured."""
     out = {"method": "sampled", "reference": "h2olut IF97 core (float64)",
            "counts": v["counts"], "seed": v["seed"], "rms_error": v["rms_error"],
@@ -98,7 +98,7 @@ def table_record_2d(table):
                       "max": dom.p_hi}, second], g.fmt, g.storage_bytes, v,
                 [float(v["at"][0]), float(v["at"][1])])
     rec.update({
-        "verification": _verification(v, gt.floor, max_by_kind=v.get("max_by_kind"),
+        "verification": verification_block(v, gt.floor, max_by_kind=v.get("max_by_kind"),
                                       order_reversals=v.get("reversals"),
                                       points_requested=v.get("requested"),
                                       left_out_as_fit_points=v.get("left_out")),
@@ -136,7 +136,7 @@ def table_record_wet(table):
                "max": float(ain.hi), "range": "saturated liquid to saturated vapour"}]
     rec = _head(ts, inputs, wt.fmt, wt.storage_bytes, v, [float(v["at"][0]), float(v["at"][1])])
     rec.update({
-        "verification": _verification(
+        "verification": verification_block(
             v, wt.floor, quality_max_error=v["quality_max_error"],
             dome_status={k: v[k] for k in (
                 "inside_flagged_outside", "inside_flagged_max_depth", "outside_points",
