@@ -20,7 +20,7 @@ import numpy as np
 
 from . import region1, region2, region3, region4, region5, regions, transport
 from . import region3_backward as r3b
-from .constants import P_MAX, T_13, T_MAX, T_MAX_25, TC
+from .constants import P_MAX, PC, T_13, T_MAX, T_MAX_25, TC
 from .props import KEYS
 
 saturation_pressure = region4.saturation_pressure
@@ -111,7 +111,8 @@ def _backward(p, y, key, mask):
     out = np.full(pf.shape, np.nan)
     ok = (pf > 0) & (pf <= P_MAX) & np.isfinite(yf)
     # boundary values of y along the region limits
-    Ts = np.where(ok & (pf <= 22.064e6), region4.saturation_temperature(np.clip(pf, 611.212677, 22.064e6)), np.nan)
+    Ts = np.where(ok & (pf <= PC),
+                  region4.saturation_temperature(np.clip(pf, 611.212677, PC)), np.nan)
     y_min = region1.props(np.where(ok, pf, 1e5), np.full(pf.shape, 273.15))[key]
     y_max = region2.props(np.where(ok, pf, 1e5), np.full(pf.shape, T_MAX_25))[key]
     ok &= (yf >= y_min - BOUNDARY_SLACK * np.abs(y_min)) & (yf <= y_max * (1 + BOUNDARY_SLACK))
@@ -159,7 +160,7 @@ def _backward(p, y, key, mask):
             p3, y3 = pf[i3], yf[i3]
             T3 = np.full(p3.shape, np.nan)
             wet = np.zeros(p3.shape, dtype=bool)
-            sat = p3 < 22.064e6
+            sat = p3 < PC
             if sat.any():
                 liq, vap = saturated_states(Ts[i3][sat])
                 w = (y3[sat] > liq[key]) & (y3[sat] < vap[key])
@@ -199,7 +200,7 @@ def quality_ps(p, s):
 
 def _quality(p, a, key):
     p, a = np.broadcast_arrays(np.asarray(p, dtype=np.float64), np.asarray(a, dtype=np.float64))
-    ok = (p >= 611.212677) & (p < 22.064e6)
+    ok = (p >= 611.212677) & (p < PC)
     T = region4.saturation_temperature(np.where(ok, p, 1e5))
     liq, vap = saturated_states(T)
     x = (a - liq[key]) / (vap[key] - liq[key])

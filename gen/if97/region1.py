@@ -12,21 +12,19 @@ broadcasting (scalars give 0-d results):
 
 With ``refine=False`` the backward functions return the raw backward equation (to check
 against the release's tables); with ``refine=True`` a few vectorized Newton steps on the
-basic equation (``newton``, at most ``MAX_NEWTON_STEPS``) make
+basic equation (``series.newton``, at most ``series.MAX_NEWTON_STEPS``) make
 ``h(p, temperature_ph(p, h)) == h`` to round-off.
 
 Validity (release): 273.15 K <= T <= 623.15 K, p_sat(T) <= p <= 100 MPa. Nothing here masks
 points outside it; region selection lives in ``regions``.
 
-The module also holds ``BlockSeries``, the blockwise power-series evaluator (integer
-exponents of either sign, partial derivatives, several outputs from one set of powers) that
-the region modules of this package share.
 """
 
 import numpy as np
 
 from .constants import R
 from .props import from_gibbs
+from .series import BlockSeries, flat_pair, newton
 
 #: reducing pressure p*, Pa, and temperature T*, K (R7-97(2012) eq. 7)
 P_STAR = 16.53e6
@@ -69,199 +67,6 @@ n_TPS = [0.17478268058307e3, 0.34806930892873e2, 0.65292584978455e1, 0.330399817
          0.44778286690632e-4, -0.51322156908507e-9, -0.42522657042207e-25,
          0.26400441360689e-12, 0.78124600459723e-28, -0.30732199903668e-30]
 
-#: most Newton steps of the ``refine`` option; the loop stops once every correction is below
-#: 1e-13 T (the backward equations start within 25 mK, so 2-3 steps usually reach round-off)
-MAX_NEWTON_STEPS = 8
-
-
-# ---------------------------------------------------------------------------------------------
-# blockwise power-series evaluation
-
-
-def _ladder(exponents):
-    """Multiplication steps (e, a, b), power e = power a * power b, that build every wanted
-    exponent > 1 from power 1, reusing earlier powers where one product suffices."""
-    have = {1}
-    steps = []
-
-    def build(e):
-        if e in have:
-            return
-        for a in sorted(have, reverse=True):
-            if a < e and (e - a) in have:
-                pair = (a, e - a)
-                break
-        else:
-            half = e // 2
-            build(half)
-            build(e - half)
-            pair = (half, e - half)
-        steps.append((e, pair[0], pair[1]))
-        have.add(e)
-
-    for e in sorted({int(x) for x in exponents if x > 1}):
-        build(e)
-    return steps
-
-
-class _Powers:
-    """Plan for the integer powers of one variable that a set of sums needs (negative ones
-    from 1/x), with buffers reused from block to block."""
-
-    def __init__(self, exponents):
-        exps = {int(e) for e in exponents if e != 0}
-        self.pos = _ladder(e for e in exps if e > 0)
-        self.neg = _ladder(-e for e in exps if e < 0)
-        self.inv = any(e < 0 for e in exps)
-
-    def buffers(self, m):
-        bufs = {e: np.empty(m) for e, _, _ in self.pos}
-        bufs.update({-e: np.empty(m) for e, _, _ in self.neg})
-        if self.inv:
-            bufs[-1] = np.empty(m)
-        return bufs
-
-    def build(self, x, bufs):
-        m = x.shape[0]
-        P = {1: x}
-        for e, a, b in self.pos:
-            P[e] = np.multiply(P[a], P[b], out=bufs[e][:m])
-        if self.inv:
-            P[-1] = np.divide(1.0, x, out=bufs[-1][:m])
-            for e, a, b in self.neg:
-                P[-e] = np.multiply(P[-a], P[-b], out=bufs[-e][:m])
-        return P
-
-
-class BlockSeries:
-    """sum_k n_k x**I_k y**J_k (integer exponents, either sign) and its partial derivatives,
-    evaluated in cache-sized blocks.
-
-    Each requested derivative is grouped by powers of x and summed as a Horner scheme in x
-    whose coefficients are sums of powers of y. Every power of x and y is built by repeated
-    multiplication once per block (shared by all requested derivatives) into a buffer that
-    is reused, so nothing is allocated per term; only IEEE elementwise operations are used.
-
-    ``values(x, y, derivs)`` returns one array per (dx, dy) in ``derivs``; ``value(x, y, dx,
-    dy)`` a single one. Pass ``y=None`` for a single series sum_k n_k x**I_k.
-    ``evaluate(x, y, outs, derivs)`` writes into given flat arrays (the fast path).
-    Shared by the region modules of this package.
-    """
-
-    def __init__(self, I, J, n, block=16384):
-        if J is None:
-            J = [0] * len(I)
-        if not (len(I) == len(J) == len(n)):
-            raise ValueError("I, J and n must have the same length")
-        self.I = [int(i) for i in I]
-        self.J = [int(j) for j in J]
-        self.n = [float(c) for c in n]
-        self.block = block
-        self._plans = {}
-        self._powers = {}
-
-    def _plan(self, dx, dy):
-        key = (dx, dy)
-        if key not in self._plans:
-            groups = {}
-            for i, j, c in zip(self.I, self.J, self.n):
-                for _ in range(dx):
-                    c, i = c * i, i - 1
-                for _ in range(dy):
-                    c, j = c * j, j - 1
-                if c != 0.0:
-                    groups.setdefault(i, []).append((j, c))
-            order = sorted(groups, reverse=True)
-            plan = ([sorted(groups[i]) for i in order],
-                    [hi - lo for hi, lo in zip(order[:-1], order[1:])],
-                    order[-1] if order else 0)
-            self._plans[key] = plan
-        return self._plans[key]
-
-    def _power_plans(self, derivs):
-        key = tuple(derivs)
-        if key not in self._powers:
-            xe, ye = set(), set()
-            for d in derivs:
-                terms, gaps, last = self._plan(*d)
-                xe.update(gaps)
-                xe.add(last)
-                ye.update(j for group in terms for j, _ in group)
-            self._powers[key] = (_Powers(xe), _Powers(ye))
-        return self._powers[key]
-
-    def evaluate(self, x, y, outs, derivs=((0, 0),)):
-        """Write the derivatives ``derivs`` at flat float arrays x, y into flat ``outs``."""
-        derivs = [tuple(d) for d in derivs]
-        plans = [self._plan(*d) for d in derivs]
-        px, py = self._power_plans(derivs)
-        total = x.shape[0]
-        m0 = max(1, min(self.block, total))
-        xb, yb, tmp_full = px.buffers(m0), py.buffers(m0), np.empty(m0)
-        for start in range(0, total, m0):
-            stop = min(start + m0, total)
-            tmp = tmp_full[:stop - start]
-            X = px.build(x[start:stop], xb)
-            Y = py.build(y[start:stop], yb) if y is not None else {}
-            for (terms, gaps, last), out in zip(plans, outs):
-                acc = out[start:stop]
-                if not terms:
-                    acc.fill(0.0)
-                    continue
-                for g, group in enumerate(terms):
-                    if g == 0:
-                        j0, c0 = group[0]
-                        if j0 == 0:
-                            acc.fill(c0)
-                        else:
-                            np.multiply(Y[j0], c0, out=acc)
-                        rest = group[1:]
-                    else:
-                        acc *= X[gaps[g - 1]]
-                        rest = group
-                    for j, c in rest:
-                        if j == 0:
-                            acc += c
-                        else:
-                            np.multiply(Y[j], c, out=tmp)
-                            acc += tmp
-                if last != 0:
-                    acc *= X[last]
-        return outs
-
-    def values(self, x, y, derivs):
-        """Arrays (shape of broadcast x, y; 0-d for scalars) of each (dx, dy) in derivs."""
-        if y is None:
-            shape, xf = np.shape(x), np.ascontiguousarray(x, dtype=float).ravel()
-            yf = None
-        else:
-            shape, xf, yf = _flat_pair(x, y)
-        outs = [np.empty(xf.shape) for _ in derivs]
-        self.evaluate(xf, yf, outs, derivs)
-        return [o.reshape(shape) for o in outs]
-
-    def value(self, x, y=None, dx=0, dy=0):
-        return self.values(x, y, [(dx, dy)])[0]
-
-
-def newton(T, correction, max_steps=MAX_NEWTON_STEPS):
-    """Vectorized Newton iteration T <- T - correction(T), stopped when every |correction|
-    is at most 1e-13 T (NaN points do not hold the loop) or after ``max_steps`` steps."""
-    for _ in range(max_steps):
-        dT = correction(T)
-        T = T - dT
-        if not np.any(np.abs(dT) > 1e-13 * np.abs(T)):
-            break
-    return T
-
-
-def _flat_pair(a, b):
-    """Broadcast two inputs to one shape; return the shape and flat contiguous float arrays
-    (views where the inputs already are, copies otherwise)."""
-    a, b = np.broadcast_arrays(np.asarray(a, dtype=float), np.asarray(b, dtype=float))
-    return a.shape, np.ascontiguousarray(a).ravel(), np.ascontiguousarray(b).ravel()
-
-
 _GAMMA = BlockSeries(I, J, n)
 _TPH = BlockSeries(I_TPH, J_TPH, n_TPH)
 _TPS = BlockSeries(I_TPS, J_TPS, n_TPS)
@@ -298,7 +103,7 @@ def props(p, T):
 
 def density(p, T):
     """Region 1 density (kg/m^3) at p (Pa), T (K), from gamma_pi only (fast path)."""
-    shape, pf, Tf = _flat_pair(p, T)
+    shape, pf, Tf = flat_pair(p, T)
     x = np.divide(pf, P_STAR)
     np.subtract(7.1, x, out=x)
     y = np.divide(T_STAR, Tf)

@@ -30,7 +30,7 @@ import numpy as np
 
 from .constants import R
 from .props import from_gibbs
-from .region1 import BlockSeries, _flat_pair, newton
+from .series import BlockSeries, flat_pair, newton
 
 #: reducing pressure p*, Pa, and temperature T*, K (R7-97(2012) eq. 15)
 P_STAR = 1e6
@@ -242,7 +242,7 @@ def props_metastable(p, T):
 def density(p, T):
     """Region 2 density (kg/m^3) at p (Pa), T (K), from gamma_r_pi only (fast path):
     rho = p / (R T (1 + pi gamma_r_pi))."""
-    shape, pf, Tf = _flat_pair(p, T)
+    shape, pf, Tf = flat_pair(p, T)
     x = np.divide(pf, P_STAR)
     y = np.divide(T_STAR, Tf)
     y -= 0.5
@@ -322,7 +322,7 @@ def temperature_ph(p, h, refine=True):
     ``refine=False`` returns the backward equation of the point's subregion; ``refine=True``
     (default) then applies Newton steps T <- T - (h(p, T) - h) / cp(p, T) on eq. 15.
     """
-    shape, pf, hf = _flat_pair(p, h)
+    shape, pf, hf = flat_pair(p, h)
     T = _tph_raw(subregion_ph(pf, hf), pf, hf)
     if refine:
         pi = pf / P_STAR
@@ -345,7 +345,7 @@ def temperature_ps(p, s, refine=True):
     starting below ``P_LOW_S`` from eq. 25 at ``P_LOW_S`` with s shifted by R ln(p / P_LOW_S)
     (ideal-gas behaviour), since eq. 25 itself degrades below ~600 Pa.
     """
-    shape, pf, sf = _flat_pair(p, s)
+    shape, pf, sf = flat_pair(p, s)
     if not refine:
         return _tps_raw(subregion_ps(pf, sf), pf, sf).reshape(shape)[()]
     # start: eq. 25-27, below P_LOW_S at P_LOW_S with the ideal-gas entropy shift

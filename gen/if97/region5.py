@@ -15,7 +15,7 @@ import numpy as np
 
 from .constants import R
 from .props import from_gibbs
-from .region1 import BlockSeries, _flat_pair
+from .series import BlockSeries, flat_pair
 
 #: reducing pressure p*, Pa, and temperature T*, K (R7-97(2012) eq. 32)
 P_STAR = 1e6
@@ -62,7 +62,7 @@ def props(p, T):
 
 def density(p, T):
     """Region 5 density (kg/m^3) at p (Pa), T (K), from gamma_r_pi only."""
-    shape, pf, Tf = _flat_pair(p, T)
+    shape, pf, Tf = flat_pair(p, T)
     x = np.divide(pf, P_STAR)
     y = np.divide(T_STAR, Tf)
     out = np.empty(pf.shape)
