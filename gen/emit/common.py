@@ -163,10 +163,10 @@ def summary(table):
     return {
         "name": ts.name,
         "function": ts.function,
-        "quantity": ts.quantity,
+        "quantity": ts.quantity.replace("_", " "),
         "description": ts.description,
         "input": inp.quantity,
-        "input_unit": inp.unit + gauge,
+        "input_unit": inp.unit,
         "range": f"{num_text(inp.lo)} to {num_text(inp.hi)} {inp.unit}{gauge}",
         "output_unit": ts.output_unit,
         "tolerance": tol,
