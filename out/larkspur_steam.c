@@ -14,7 +14,7 @@
 #pragma STDC FP_CONTRACT OFF
 #endif
 
-/* ---- lvc_autoclave_tsat: saturation_temperature [degC] from pressure [bar (gauge, atmosphere 101325 Pa)]
+/* ---- lvc_autoclave_tsat: saturation temperature [degC] from pressure [bar]
  * 3 equal segments of degree 4 (index computed, O(1)); tolerance 0.02 degC; verified 0.0065 degC at 0.41463184 bar (100000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 5 nodes per segment, rounded to float32.
  * u = (x - x0) * inv_h; i = (int)u (at most 2); t = u - i; y = (((c[0]*t + c[1])*t + c[2])*t + c[3])*t + c[4].
@@ -74,7 +74,7 @@ int32_t lvc_autoclave_tsat_status(float x, float *y)
 }
 
 
-/* ---- lvc_boiler_tsat: saturation_temperature [degC] from pressure [bar]
+/* ---- lvc_boiler_tsat: saturation temperature [degC] from pressure [bar]
  * 80 segments of degree 1, 16 per octave of the input (index from the float's bits, O(1)); tolerance 0.02 degC; verified 0.018 degC at 8.999999 bar (100000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 2 nodes per segment, rounded to float32.
  * i = (bits of x >> 19) - 2016 (16 segments per octave); x[i] and 1/width are
@@ -291,7 +291,7 @@ int32_t lvc_boiler_tsat_status(float x, float *y)
 }
 
 
-/* ---- lvc_steam_density: saturated_vapor_density [kg/m^3] from pressure [bar]
+/* ---- lvc_steam_density: saturated vapor density [kg/m^3] from pressure [bar]
  * 2 equal segments of degree 3 (index computed, O(1)); tolerance 0.05 % of the value; verified 0.0239 % at 2.4253822 bar (100000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 4 nodes per segment, rounded to float32.
  * u = (x - x0) * inv_h; i = (int)u (at most 1); t = u - i; y = ((c[0]*t + c[1])*t + c[2])*t + c[3].
@@ -348,7 +348,7 @@ int32_t lvc_steam_density_status(float x, float *y)
 }
 
 
-/* ---- lvc_steam_latent: latent_heat [kJ/kg] from pressure [bar]
+/* ---- lvc_steam_latent: latent heat [kJ/kg] from pressure [bar]
  * 3 segments of degree 3, 1 per octave of the input (index from the float's bits, O(1)); tolerance 0.1 kJ/kg; verified 0.0555 kJ/kg at 5.9521526 bar (100000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 4 nodes per segment, rounded to float32.
  * i = (bits of x >> 23) - 128 (1 segments per octave); x[i] and 1/width are
@@ -413,7 +413,7 @@ int32_t lvc_steam_latent_status(float x, float *y)
 }
 
 
-/* ---- lvc_condensate_h: saturated_liquid_enthalpy [kJ/kg] from temperature [degC]
+/* ---- lvc_condensate_h: saturated liquid enthalpy [kJ/kg] from temperature [degC]
  * 1 equal segment of degree 4 (index computed, O(1)); tolerance 0.05 kJ/kg; verified 0.0126 kJ/kg at 142.46572 degC (100000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 5 nodes per segment, rounded to float32.
  * u = (x - x0) * inv_h; i = (int)u (at most 0); t = u - i; y = (((c[0]*t + c[1])*t + c[2])*t + c[3])*t + c[4].
@@ -469,7 +469,7 @@ int32_t lvc_condensate_h_status(float x, float *y)
 }
 
 
-/* ---- lvc_cooler_psat: saturation_pressure [mbar] from temperature [degC]
+/* ---- lvc_cooler_psat: saturation pressure [mbar] from temperature [degC]
  * 1 equal segment of degree 5 (index computed, O(1)); tolerance 0.02 % of the value; verified 0.00372 % at 13.064895 degC (100000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 6 nodes per segment, rounded to float32.
  * u = (x - x0) * inv_h; i = (int)u (at most 0); t = u - i; y = ((((c[0]*t + c[1])*t + c[2])*t + c[3])*t + c[4])*t + c[5].

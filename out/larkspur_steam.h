@@ -25,9 +25,9 @@ extern "C" {
 #define LVC_ABOVE 2
 #define LVC_NOT_A_NUMBER 3
 
-/* lvc_autoclave_tsat: saturation_temperature from pressure - Autoclave AC-2 chamber: saturation temperature from gauge transmitter PT-211 (0-4 bar g)
- *   input      pressure in bar (gauge, atmosphere 101325 Pa), range 0 to 4 bar (gauge, atmosphere 101325 Pa)
- *   output     saturation_temperature in degC
+/* lvc_autoclave_tsat: saturation temperature from pressure - Autoclave AC-2 chamber: saturation temperature from gauge transmitter PT-211 (0-4 bar g)
+ *   input      pressure in bar, range 0 to 4 bar (gauge, atmosphere 101325 Pa)
+ *   output     saturation temperature in degC
  *   tolerance  0.02 degC
  *   verified   0.0065 degC at 0.41463184 bar, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
  *   with FMA   0.0065 degC when the compiler fuses y*t + c (emulated)
@@ -43,9 +43,9 @@ float lvc_autoclave_tsat(float x);
 /* Same value as lvc_autoclave_tsat into *y; returns LVC_IN_RANGE, _BELOW, _ABOVE or _NOT_A_NUMBER. */
 int32_t lvc_autoclave_tsat_status(float x, float *y);
 
-/* lvc_boiler_tsat: saturation_temperature from pressure - Boiler B-1 drum: saturation temperature from absolute pressure PT-101 (0.5-16 bar)
+/* lvc_boiler_tsat: saturation temperature from pressure - Boiler B-1 drum: saturation temperature from absolute pressure PT-101 (0.5-16 bar)
  *   input      pressure in bar, range 0.5 to 16 bar
- *   output     saturation_temperature in degC
+ *   output     saturation temperature in degC
  *   tolerance  0.02 degC
  *   verified   0.018 degC at 8.999999 bar, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
  *   with FMA   0.018 degC when the compiler fuses y*t + c (emulated)
@@ -61,9 +61,9 @@ float lvc_boiler_tsat(float x);
 /* Same value as lvc_boiler_tsat into *y; returns LVC_IN_RANGE, _BELOW, _ABOVE or _NOT_A_NUMBER. */
 int32_t lvc_boiler_tsat_status(float x, float *y);
 
-/* lvc_steam_density: saturated_vapor_density from pressure - Steam meter FT-407: saturated steam density for flow compensation (2-12 bar)
+/* lvc_steam_density: saturated vapor density from pressure - Steam meter FT-407: saturated steam density for flow compensation (2-12 bar)
  *   input      pressure in bar, range 2 to 12 bar
- *   output     saturated_vapor_density in kg/m^3
+ *   output     saturated vapor density in kg/m^3
  *   tolerance  0.05 % of the value
  *   verified   0.0239 % at 2.4253822 bar, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
  *   with FMA   0.0239 % when the compiler fuses y*t + c (emulated)
@@ -79,9 +79,9 @@ float lvc_steam_density(float x);
 /* Same value as lvc_steam_density into *y; returns LVC_IN_RANGE, _BELOW, _ABOVE or _NOT_A_NUMBER. */
 int32_t lvc_steam_density_status(float x, float *y);
 
-/* lvc_steam_latent: latent_heat from pressure - Heat meter HM-3: latent heat of the process steam (2-12 bar)
+/* lvc_steam_latent: latent heat from pressure - Heat meter HM-3: latent heat of the process steam (2-12 bar)
  *   input      pressure in bar, range 2 to 12 bar
- *   output     latent_heat in kJ/kg
+ *   output     latent heat in kJ/kg
  *   tolerance  0.1 kJ/kg
  *   verified   0.0555 kJ/kg at 5.9521526 bar, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
  *   with FMA   0.0555 kJ/kg when the compiler fuses y*t + c (emulated)
@@ -97,9 +97,9 @@ float lvc_steam_latent(float x);
 /* Same value as lvc_steam_latent into *y; returns LVC_IN_RANGE, _BELOW, _ABOVE or _NOT_A_NUMBER. */
 int32_t lvc_steam_latent_status(float x, float *y);
 
-/* lvc_condensate_h: saturated_liquid_enthalpy from temperature - Condensate return TT-512: saturated liquid enthalpy from temperature (40-190 degC)
+/* lvc_condensate_h: saturated liquid enthalpy from temperature - Condensate return TT-512: saturated liquid enthalpy from temperature (40-190 degC)
  *   input      temperature in degC, range 40 to 190 degC
- *   output     saturated_liquid_enthalpy in kJ/kg
+ *   output     saturated liquid enthalpy in kJ/kg
  *   tolerance  0.05 kJ/kg
  *   verified   0.0126 kJ/kg at 142.46572 degC, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
  *   with FMA   0.0125 kJ/kg when the compiler fuses y*t + c (emulated)
@@ -115,9 +115,9 @@ float lvc_condensate_h(float x);
 /* Same value as lvc_condensate_h into *y; returns LVC_IN_RANGE, _BELOW, _ABOVE or _NOT_A_NUMBER. */
 int32_t lvc_condensate_h_status(float x, float *y);
 
-/* lvc_cooler_psat: saturation_pressure from temperature - Vacuum cooler VC-2: saturation pressure from product temperature TT-620 (2-60 degC)
+/* lvc_cooler_psat: saturation pressure from temperature - Vacuum cooler VC-2: saturation pressure from product temperature TT-620 (2-60 degC)
  *   input      temperature in degC, range 2 to 60 degC
- *   output     saturation_pressure in mbar
+ *   output     saturation pressure in mbar
  *   tolerance  0.02 % of the value
  *   verified   0.00372 % at 13.064895 degC, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
  *   with FMA   0.00371 % when the compiler fuses y*t + c (emulated)

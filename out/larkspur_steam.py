@@ -203,9 +203,9 @@ def _call(x, tab):
     return y[0] if np.ndim(x) == 0 else y.reshape(np.shape(x))
 
 
-# lvc_autoclave_tsat: saturation_temperature from pressure
-#   input      pressure in bar (gauge, atmosphere 101325 Pa), range 0 to 4 bar (gauge, atmosphere 101325 Pa)
-#   output     saturation_temperature in degC
+# lvc_autoclave_tsat: saturation temperature from pressure
+#   input      pressure in bar, range 0 to 4 bar (gauge, atmosphere 101325 Pa)
+#   output     saturation temperature in degC
 #   tolerance  0.02 degC
 #   verified   0.0065 degC at 0.41463184 bar, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
 #   method     3 equal segments of degree 4 (index computed, O(1)), float32
@@ -228,7 +228,7 @@ _lvc_autoclave_tsat = {
 
 
 def lvc_autoclave_tsat(x):
-    """saturation_temperature [degC] from pressure [bar (gauge, atmosphere 101325 Pa)], 0 to 4 bar (gauge, atmosphere 101325 Pa)."""
+    """saturation temperature [degC] from pressure [bar], 0 to 4 bar (gauge, atmosphere 101325 Pa)."""
     return _call(x, _lvc_autoclave_tsat)
 
 
@@ -237,9 +237,9 @@ def lvc_autoclave_tsat_status(x):
     s = status(x, "float32", _lvc_autoclave_tsat["lo"], _lvc_autoclave_tsat["hi"])
     return lvc_autoclave_tsat(x), (s[0] if np.ndim(x) == 0 else s.reshape(np.shape(x)))
 
-# lvc_boiler_tsat: saturation_temperature from pressure
+# lvc_boiler_tsat: saturation temperature from pressure
 #   input      pressure in bar, range 0.5 to 16 bar
-#   output     saturation_temperature in degC
+#   output     saturation temperature in degC
 #   tolerance  0.02 degC
 #   verified   0.018 degC at 8.999999 bar, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
 #   method     80 segments of degree 1, 16 per octave of the input (index from the float's bits, O(1)), float32
@@ -311,7 +311,7 @@ _lvc_boiler_tsat = {
 
 
 def lvc_boiler_tsat(x):
-    """saturation_temperature [degC] from pressure [bar], 0.5 to 16 bar."""
+    """saturation temperature [degC] from pressure [bar], 0.5 to 16 bar."""
     return _call(x, _lvc_boiler_tsat)
 
 
@@ -320,9 +320,9 @@ def lvc_boiler_tsat_status(x):
     s = status(x, "float32", _lvc_boiler_tsat["lo"], _lvc_boiler_tsat["hi"])
     return lvc_boiler_tsat(x), (s[0] if np.ndim(x) == 0 else s.reshape(np.shape(x)))
 
-# lvc_steam_density: saturated_vapor_density from pressure
+# lvc_steam_density: saturated vapor density from pressure
 #   input      pressure in bar, range 2 to 12 bar
-#   output     saturated_vapor_density in kg/m^3
+#   output     saturated vapor density in kg/m^3
 #   tolerance  0.05 % of the value
 #   verified   0.0239 % at 2.4253822 bar, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
 #   method     2 equal segments of degree 3 (index computed, O(1)), float32
@@ -343,7 +343,7 @@ _lvc_steam_density = {
 
 
 def lvc_steam_density(x):
-    """saturated_vapor_density [kg/m^3] from pressure [bar], 2 to 12 bar."""
+    """saturated vapor density [kg/m^3] from pressure [bar], 2 to 12 bar."""
     return _call(x, _lvc_steam_density)
 
 
@@ -352,9 +352,9 @@ def lvc_steam_density_status(x):
     s = status(x, "float32", _lvc_steam_density["lo"], _lvc_steam_density["hi"])
     return lvc_steam_density(x), (s[0] if np.ndim(x) == 0 else s.reshape(np.shape(x)))
 
-# lvc_steam_latent: latent_heat from pressure
+# lvc_steam_latent: latent heat from pressure
 #   input      pressure in bar, range 2 to 12 bar
-#   output     latent_heat in kJ/kg
+#   output     latent heat in kJ/kg
 #   tolerance  0.1 kJ/kg
 #   verified   0.0555 kJ/kg at 5.9521526 bar, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
 #   method     3 segments of degree 3, 1 per octave of the input (index from the float's bits, O(1)), float32
@@ -376,7 +376,7 @@ _lvc_steam_latent = {
 
 
 def lvc_steam_latent(x):
-    """latent_heat [kJ/kg] from pressure [bar], 2 to 12 bar."""
+    """latent heat [kJ/kg] from pressure [bar], 2 to 12 bar."""
     return _call(x, _lvc_steam_latent)
 
 
@@ -385,9 +385,9 @@ def lvc_steam_latent_status(x):
     s = status(x, "float32", _lvc_steam_latent["lo"], _lvc_steam_latent["hi"])
     return lvc_steam_latent(x), (s[0] if np.ndim(x) == 0 else s.reshape(np.shape(x)))
 
-# lvc_condensate_h: saturated_liquid_enthalpy from temperature
+# lvc_condensate_h: saturated liquid enthalpy from temperature
 #   input      temperature in degC, range 40 to 190 degC
-#   output     saturated_liquid_enthalpy in kJ/kg
+#   output     saturated liquid enthalpy in kJ/kg
 #   tolerance  0.05 kJ/kg
 #   verified   0.0126 kJ/kg at 142.46572 degC, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
 #   method     1 equal segment of degree 4 (index computed, O(1)), float32
@@ -407,7 +407,7 @@ _lvc_condensate_h = {
 
 
 def lvc_condensate_h(x):
-    """saturated_liquid_enthalpy [kJ/kg] from temperature [degC], 40 to 190 degC."""
+    """saturated liquid enthalpy [kJ/kg] from temperature [degC], 40 to 190 degC."""
     return _call(x, _lvc_condensate_h)
 
 
@@ -416,9 +416,9 @@ def lvc_condensate_h_status(x):
     s = status(x, "float32", _lvc_condensate_h["lo"], _lvc_condensate_h["hi"])
     return lvc_condensate_h(x), (s[0] if np.ndim(x) == 0 else s.reshape(np.shape(x)))
 
-# lvc_cooler_psat: saturation_pressure from temperature
+# lvc_cooler_psat: saturation pressure from temperature
 #   input      temperature in degC, range 2 to 60 degC
-#   output     saturation_pressure in mbar
+#   output     saturation pressure in mbar
 #   tolerance  0.02 % of the value
 #   verified   0.00372 % at 13.064895 degC, the largest of 100000 sampled points (ends, breakpoints and neighbours, per-segment worst, seeded random) evaluated in float32 emulation against the IF97 core; a sampled maximum, not a bound
 #   method     1 equal segment of degree 5 (index computed, O(1)), float32
@@ -438,7 +438,7 @@ _lvc_cooler_psat = {
 
 
 def lvc_cooler_psat(x):
-    """saturation_pressure [mbar] from temperature [degC], 2 to 60 degC."""
+    """saturation pressure [mbar] from temperature [degC], 2 to 60 degC."""
     return _call(x, _lvc_cooler_psat)
 
 

@@ -15,7 +15,7 @@
 #pragma STDC FP_CONTRACT OFF
 #endif
 
-/* ---- lvg__main_steam_density_sat: saturation_temperature [degC] from pressure [bar]
+/* ---- lvg__main_steam_density_sat: saturation temperature [degC] from pressure [bar]
  * 3 segments of degree 3, 1 per octave of the input (index from the float's bits, O(1)); tolerance 0.047093 degC; verified 0.0255 degC at 11.892639 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 4 nodes per segment, rounded to float32.
  * i = (bits of x >> 23) - 128 (1 segments per octave); x[i] and 1/width are
@@ -241,7 +241,7 @@ int32_t lvg_main_steam_density_status(float p, float v, float *y)
 }
 
 
-/* ---- lvg__feedwater_density_sat: saturation_temperature [degC] from pressure [bar]
+/* ---- lvg__feedwater_density_sat: saturation temperature [degC] from pressure [bar]
  * 4 segments of degree 4, 1 per octave of the input (index from the float's bits, O(1)); tolerance 0.0192768 degC; verified 0.00344 degC at 10.483359 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 5 nodes per segment, rounded to float32.
  * i = (bits of x >> 23) - 128 (1 segments per octave); x[i] and 1/width are
@@ -471,7 +471,7 @@ int32_t lvg_feedwater_density_status(float p, float v, float *y)
 }
 
 
-/* ---- lvg__hx5_outlet_temperature_sat: saturated_vapor_enthalpy [kJ/kg] from pressure [bar]
+/* ---- lvg__hx5_outlet_temperature_sat: saturated vapor enthalpy [kJ/kg] from pressure [bar]
  * 3 segments of degree 4, 1 per octave of the input (index from the float's bits, O(1)); tolerance 0.0301245 kJ/kg; verified 0.00596 kJ/kg at 10.482244 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 5 nodes per segment, rounded to float32.
  * i = (bits of x >> 23) - 128 (1 segments per octave); x[i] and 1/width are
@@ -703,7 +703,7 @@ int32_t lvg_hx5_outlet_temperature_status(float p, float v, float *y)
  * quality x = (a - a'(p)) / (a''(p) - a'(p)) from saturation tables of pressure, clamped to [0, 1]; output quality x. Tables: saturated liquid enthalpy (4 x degree 2, binade, 48 B), saturated vapor enthalpy (2 x degree 3, free, 48 B).
  * Verified 0.00057 at p = 1.46542 bar, specific enthalpy = 2689.06 kJ/kg, the largest of 100000 sampled points inside the dome (member breakpoints and neighbours, dome edges, seeded random) of the whole function in float32 emulation against the IF97 core; a sampled maximum, not a bound.
  */
-/* ---- lvg__ph2_dryness_liq: saturated_liquid_enthalpy [kJ/kg] from pressure [bar]
+/* ---- lvg__ph2_dryness_liq: saturated liquid enthalpy [kJ/kg] from pressure [bar]
  * 4 segments of degree 2, 1 per octave of the input (index from the float's bits, O(1)); tolerance 1.58802 kJ/kg; verified 0.701 kJ/kg at 4.7834073 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 3 nodes per segment, rounded to float32.
  * i = (bits of x >> 23) - 127 (1 segments per octave); x[i] and 1/width are
@@ -754,7 +754,7 @@ static float lvg__ph2_dryness_liq(float x)
 }
 
 
-/* ---- lvg__ph2_dryness_vap: saturated_vapor_enthalpy [kJ/kg] from pressure [bar]
+/* ---- lvg__ph2_dryness_vap: saturated vapor enthalpy [kJ/kg] from pressure [bar]
  * 2 segments of degree 3 on free breakpoints (binary search); tolerance 1.58802 kJ/kg; verified 1.27 kJ/kg at 1.447075 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 4 nodes per segment, rounded to float32.
  * Segment i = largest i with x[i] <= x; t = (x - x[i]) * inv_w[i]; y = ((c[0]*t + c[1])*t + c[2])*t + c[3].
@@ -856,7 +856,7 @@ int32_t lvg_ph2_dryness_status(float p, float a, float *y)
  * quality x = (a - a'(p)) / (a''(p) - a'(p)) from saturation tables of pressure, clamped to [0, 1]; output density 1 / (v' + x (v'' - v')). Tables: saturated liquid enthalpy (4 x degree 5, binade, 96 B), saturated vapor enthalpy (4 x degree 1, binade, 32 B), saturated liquid volume (4 x degree 1, binade, 32 B), saturated vapor volume (7 x degree 3, binade, 112 B).
  * Verified 0.131 % at p = 1.03619 bar, specific enthalpy = 421.643 kJ/kg, the largest of 100000 sampled points inside the dome (member breakpoints and neighbours, dome edges, seeded random) of the whole function in float32 emulation against the IF97 core; a sampled maximum, not a bound.
  */
-/* ---- lvg__ph2_density_liq: saturated_liquid_enthalpy [kJ/kg] from pressure [bar]
+/* ---- lvg__ph2_density_liq: saturated liquid enthalpy [kJ/kg] from pressure [bar]
  * 4 segments of degree 5, 1 per octave of the input (index from the float's bits, O(1)); tolerance 0.000368206 % of the value; verified 0.000313 % at 1.2121921 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 6 nodes per segment, rounded to float32.
  * i = (bits of x >> 23) - 127 (1 segments per octave); x[i] and 1/width are
@@ -910,7 +910,7 @@ static float lvg__ph2_density_liq(float x)
 }
 
 
-/* ---- lvg__ph2_density_vap: saturated_vapor_enthalpy [kJ/kg] from pressure [bar]
+/* ---- lvg__ph2_density_vap: saturated vapor enthalpy [kJ/kg] from pressure [bar]
  * 4 segments of degree 1, 1 per octave of the input (index from the float's bits, O(1)); tolerance 2.2091 kJ/kg; verified 1.99 kJ/kg at 7.9999995 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 2 nodes per segment, rounded to float32.
  * i = (bits of x >> 23) - 127 (1 segments per octave); x[i] and 1/width are
@@ -960,7 +960,7 @@ static float lvg__ph2_density_vap(float x)
 }
 
 
-/* ---- lvg__ph2_density_out_liq: saturated_liquid_volume [1/(kg/m^3)] from pressure [bar]
+/* ---- lvg__ph2_density_out_liq: saturated liquid volume [1/(kg/m^3)] from pressure [bar]
  * 4 segments of degree 1, 1 per octave of the input (index from the float's bits, O(1)); tolerance 0.110499 % of the value; verified 0.0994 % at 4 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 2 nodes per segment, rounded to float32.
  * i = (bits of x >> 23) - 127 (1 segments per octave); x[i] and 1/width are
@@ -1010,7 +1010,7 @@ static float lvg__ph2_density_out_liq(float x)
 }
 
 
-/* ---- lvg__ph2_density_out_vap: saturated_vapor_volume [1/(kg/m^3)] from pressure [bar]
+/* ---- lvg__ph2_density_out_vap: saturated vapor volume [1/(kg/m^3)] from pressure [bar]
  * 7 segments of degree 3, 2 per octave of the input (index from the float's bits, O(1)); tolerance 0.110499 % of the value; verified 0.0371 % at 10.003053 bar (20000 sampled points).
  * Coefficients: Chebyshev-Lobatto interpolation of the IF97 core at 4 nodes per segment, rounded to float32.
  * i = (bits of x >> 22) - 254 (2 segments per octave); x[i] and 1/width are
