@@ -86,7 +86,7 @@ import numpy as np
 from . import __version__
 from . import quantities as Q
 from . import units as U
-from .build import core_function, error_scale, format_floor
+from .build import core_function, error_scale, format_floor, monotone_sign as _monotone
 from .emit.common import error_text
 from .report import md_escape, verification_block
 from .verify import verify_table
@@ -1162,15 +1162,6 @@ def _format_floor_2d(grid, f, scale):
     ulp_o = np.spacing(np.abs(fz).astype(ft)).astype(np.float64)
     fl = (0.5 * ulp_o + 0.5 * np.abs(da) * ulp_a + 0.5 * np.abs(db) * ulp_b) / scale(fz)
     return float(np.nanmax(fl))
-
-
-def _monotone(fx):
-    d = np.diff(fx)
-    if np.all(d > 0):
-        return 1
-    if np.all(d < 0):
-        return -1
-    return 0
 
 
 def _steps(spec, lo, hi, f):

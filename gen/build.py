@@ -6,7 +6,8 @@ control (refitting with a tighter budget until the emulated target arithmetic me
 tolerance), picks the one that best meets the goal, and verifies it densely.
 
 Offers ``Table``, ``build_table(ts)``, ``BuildError``, ``core_function(ts)``,
-``error_scale(kind)``, ``format_floor(...)``, ``estimated_ops(pw)``.
+``error_scale(kind)``, ``format_floor(...)``, ``format_range(lo, hi, fmt)``,
+``monotone_sign(fx)``, ``estimated_ops(pw)``, ``build_helper_table(...)``.
 """
 
 import hashlib
@@ -159,6 +160,18 @@ def _seed(ts, salt):
     return int.from_bytes(h[:8], "little")
 
 
+def format_range(lo, hi, fmt):
+    """[lo, hi] as format values inside it: each end rounded to ``fmt`` and moved one step
+    inward if rounding took it outside."""
+    ft = arith.FORMATS[fmt]
+    a, b = float(ft(lo)), float(ft(hi))
+    if a < lo:
+        a = float(np.nextafter(ft(a), ft(np.inf)))
+    if b > hi:
+        b = float(np.nextafter(ft(b), ft(-np.inf)))
+    return a, b
+
+
 def format_floor(f, scale, lo, hi, fmt):
     """Error from rounding the input and the output to ``fmt`` alone (no approximation)."""
     ft = arith.FORMATS[fmt]
@@ -202,7 +215,8 @@ def _first_upper_float(inp, x, fmt):
     return float(v)
 
 
-def _monotone(fx):
+def monotone_sign(fx):
+    """+1 where ``fx`` strictly increases throughout, -1 decreases, else 0."""
     d = np.diff(fx)
     if np.all(d > 0):
         return 1
@@ -282,17 +296,13 @@ def build_table(ts, progress=None):
     ft = arith.FORMATS[fmt]
     f = core_function(ts)
     scale = error_scale(ts.tol_kind)
-    lo, hi = float(ft(inp.lo)), float(ft(inp.hi))
-    if lo < inp.lo:
-        lo = float(np.nextafter(ft(lo), ft(np.inf)))
-    if hi > inp.hi:
-        hi = float(np.nextafter(ft(hi), ft(-np.inf)))
+    lo, hi = format_range(inp.lo, inp.hi, fmt)
     tol = ts.tol_value
     xs = np.linspace(lo, hi, 4097)
     fx = f(xs)
     if not np.all(np.isfinite(fx)):
         raise BuildError(f"table {ts.name!r}: the core gives no value over part of the range")
-    monotone = _monotone(fx)
+    monotone = monotone_sign(fx)
     balance = _curvature(fx, ts.tol_kind)
     floor = format_floor(f, scale, lo, hi, fmt)
     unit = ts.output_unit if ts.tol_kind == "abs" else "(relative)"

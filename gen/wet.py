@@ -27,7 +27,7 @@ from . import arith, arith_wet
 from . import quantities as Q
 from .verify import float_neighbours
 from .build import (ACCEPT, BuildError, build_helper_table, error_scale, estimated_ops,
-                    format_floor)
+                    format_floor, format_range)
 
 #: highest pressure of a wet-steam table: near the critical point (22.064 MPa) a'' - a'
 #: shrinks to zero and the quality becomes ill-conditioned
@@ -393,14 +393,9 @@ def build_wet_table(ts, progress=None, layouts=None, degree=None):
     t0 = time.perf_counter()
     pin, ain = ts.inputs
     fmt = ts.arithmetic
-    ft = arith.FORMATS[fmt]
     combine, _ = OUTPUTS[ts.quantity]
     members = members_of(ts)
-    lo, hi = float(ft(pin.lo)), float(ft(pin.hi))
-    if lo < pin.lo:
-        lo = float(np.nextafter(ft(lo), ft(np.inf)))
-    if hi > pin.hi:
-        hi = float(np.nextafter(ft(hi), ft(-np.inf)))
+    lo, hi = format_range(pin.lo, pin.hi, fmt)
     P = _pressures(lo, hi, 513)
     X = np.linspace(0.0, 1.0, 129)
     p_si = P * pin.scale + pin.offset

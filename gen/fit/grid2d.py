@@ -937,19 +937,14 @@ class Problem:
     def __init__(self, dom, tol_kind, tol, fmt="float32", policy="clamp", helper=None):
         self.dom, self.tol_kind, self.tol = dom, tol_kind, float(tol)
         self.fmt, self.policy = fmt, policy
-        ft = self.ft = arith.FORMATS[fmt]
-        lo, hi = float(ft(dom.p_lo)), float(ft(dom.p_hi))
-        if lo < dom.p_lo:
-            lo = float(np.nextafter(ft(lo), ft(np.inf)))
-        if hi > dom.p_hi:
-            hi = float(np.nextafter(ft(hi), ft(-np.inf)))
-        self.p_lo, self.p_hi = lo, hi
+        self.ft = arith.FORMATS[fmt]
+        from ..build import error_scale, format_range
+        self.p_lo, self.p_hi = format_range(dom.p_lo, dom.p_hi, fmt)
         self.helper = helper
         self.helper_pw = helper.piecewise if helper is not None else None
         self.sat_rt = self.helper_pw.runtime() if helper is not None else None
         self.side = dom.side
         self.key = repr((dom, tol_kind, tol, fmt, policy))
-        from ..build import error_scale
         self.scale = error_scale(tol_kind)
         self._cache = {}
 
